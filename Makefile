@@ -1,0 +1,39 @@
+# finkit: one entry point for set-up, tests, demo and benchmarks.
+# Every target creates the local virtual environment and installs finkit into it first,
+# so a fresh machine with Python 3.11+ and pip needs nothing else.
+
+PYTHON ?= python3
+VENV   := .venv
+BIN    := $(VENV)/bin
+STAMP  := $(VENV)/.finkit-installed
+
+.PHONY: setup test lint demo bench lab clean
+
+$(STAMP): pyproject.toml
+	$(PYTHON) -m venv $(VENV)
+	$(BIN)/python -m pip install --quiet --upgrade pip
+	$(BIN)/python -m pip install --quiet -e ".[test,distributed]"
+	$(BIN)/python -m finkit.notes --ensure-kernel
+	touch $(STAMP)
+
+setup: $(STAMP)
+
+lint: setup
+	$(BIN)/ruff format --check finkit tests bench
+	$(BIN)/ruff check finkit tests bench
+
+test: setup lint
+	bash .ci/ensure_chromium.sh
+	$(BIN)/python -m pytest
+
+demo: setup
+	$(BIN)/python -m finkit.demo
+
+bench: setup
+	$(BIN)/python bench/run_all.py
+
+lab: setup
+	$(BIN)/python -m finkit.cli lab
+
+clean:
+	rm -rf $(VENV) demo_out .pytest_cache .ruff_cache

@@ -1,0 +1,952 @@
+"""Heat-sink models: the thermal chain from junction to air, and the two design questions.
+
+A heat sink on a device is a chain of resistances in series between the junction and the
+incoming air (methods.md, section 0)::
+
+    T_j = T_in + Q (R_jc + R_int + R_sp + R_base + R_sink)
+
+* ``R_jc``: junction to case, from the device's data (the JEDEC metric RθJC);
+* ``R_int``: the interface material between case and base;
+* ``R_sp``: spreading from the source footprint into the base (Song, Lee & Au);
+* ``R_base``: one-dimensional conduction through the base thickness;
+* ``R_sink``: fins and exposed base to the *inlet* air, including the heating of the air
+  along the sink (inlet-referenced correlation, or effectiveness-NTU for bulk-referenced ones).
+
+Two questions are answered for every design, vectorised over any number of designs:
+
+* :func:`solve_temperatures` -- at this power, how hot does each node get?
+* :func:`solve_allowable_power` -- at this temperature limit on a node, how much power can the
+  sink carry?
+
+Forced convection (plate fins, pin fins): the airflow is fixed first (given velocity, given
+volume flow, or the fan curve crossed with the system curve, with bypass), with pressure drop
+and fan evaluated at the inlet air density and viscosity. Heat transfer uses air properties at
+the film temperature between the inlet air and the mean base temperature; because that
+temperature depends on the answer, a short fixed-point iteration couples them (the "property
+feedback"). Natural convection (vertical plate fins plus radiation) is solved by a vectorised
+bracketed root search on the base excess temperature, since h depends strongly on it.
+
+Every function here takes SI floats or numpy arrays that broadcast together and returns a
+:class:`SinkSolution` holding arrays; validity messages are collected in ``warnings``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Literal
+
+import numpy as np
+from scipy.optimize import elementwise
+
+from finkit.airflow import FanCurve, bypass_gap_pressure_drop, operating_point, split_bypass
+from finkit.correlations import forced, natural
+from finkit.errors import InputError, SolverError
+from finkit.fins.analytic import one_dimensional_fin_warnings
+from finkit.geometry import PinFinSink, PlateFinSink
+from finkit.properties.air import air_properties
+from finkit.radiation import plate_fin_radiation
+from finkit.spreading import spreading_resistance_song_lee_au
+from finkit.validity import check_range
+
+NODES = ("junction", "case", "base")
+"""Nodes a temperature limit may be placed on. ``base`` is the base surface under the source
+(mean over the footprint), the hottest base temperature a thermocouple would read."""
+
+FILM_ITERATIONS = 4
+"""Fixed-point passes for the film-temperature property feedback in forced convection.
+Air properties change by well under 1 % per 10 K, so four passes converge far below the
+correlations' own scatter (checked in tests against a tight iteration)."""
+
+
+# --------------------------------------------------------------------------------------
+# Inputs
+# --------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class HeatSource:
+    """The device on the sink: its power and footprint, and the resistances above the base.
+
+    Attributes
+    ----------
+    power : float or array
+        Heat dissipated into the sink [W].
+    footprint_length, footprint_width : float or array
+        Size of the contact area, centred on the base; length along the flow [m].
+    junction_to_case_resistance : float or array
+        RθJC for the cooled side [K W⁻¹]; 0 makes junction and case one node.
+    interface_resistance : float or array
+        Interface material between case and base [K W⁻¹].
+    """
+
+    power: float | np.ndarray
+    footprint_length: float | np.ndarray
+    footprint_width: float | np.ndarray
+    junction_to_case_resistance: float | np.ndarray = 0.0
+    interface_resistance: float | np.ndarray = 0.0
+
+    @property
+    def footprint_area(self):
+        """Contact area of the source [m²]."""
+        return np.multiply(self.footprint_length, self.footprint_width)
+
+
+@dataclass(frozen=True)
+class GivenVelocity:
+    """Air approaching at a known velocity [m s⁻¹], over the duct section (fins plus bypass)."""
+
+    approach_velocity: float | np.ndarray
+
+
+@dataclass(frozen=True)
+class GivenVolumeFlow:
+    """A known total volume flow approaching the sink, before any bypass [m³ s⁻¹]."""
+
+    volume_flow: float | np.ndarray
+
+
+@dataclass(frozen=True)
+class FanDriven:
+    """Flow set by a fan (or a combination of fans) against the sink and bypass."""
+
+    fan: FanCurve
+
+
+@dataclass(frozen=True)
+class NaturalConvection:
+    """Buoyancy-driven flow; only vertical fins (air rising along the fin length) are covered."""
+
+    orientation: str = "vertical-fins"
+
+
+Flow = GivenVelocity | GivenVolumeFlow | FanDriven | NaturalConvection
+
+
+@dataclass(frozen=True)
+class Bypass:
+    """Clearance between the sink and its duct, through which air can go round the fins.
+
+    Attributes
+    ----------
+    side_gap : float or array
+        Clearance on each side of the sink [m].
+    top_gap : float or array
+        Clearance above the fin tips [m]; a positive value also exposes the fin tips.
+    loss_coefficient : float
+        Inlet plus exit dynamic-head losses of the gap [-] (1.0 = one dynamic head, common
+        practice, no source).
+    """
+
+    side_gap: float | np.ndarray = 0.0
+    top_gap: float | np.ndarray = 0.0
+    loss_coefficient: float = 1.0
+
+
+@dataclass(frozen=True)
+class Air:
+    """The air entering the sink.
+
+    Attributes
+    ----------
+    inlet_temperature : float or array
+        Local inlet air temperature, with any preheat [K].
+    pressure : float or array
+        Absolute pressure (from the altitude) [Pa].
+    surroundings_temperature : float or array or None
+        Temperature of the surfaces the sink radiates to [K]; None means the inlet temperature.
+    """
+
+    inlet_temperature: float | np.ndarray
+    pressure: float | np.ndarray = 101325.0
+    surroundings_temperature: float | np.ndarray | None = None
+
+
+@dataclass(frozen=True)
+class SinkMaterial:
+    """Conductivity and surface emissivity of the sink metal."""
+
+    thermal_conductivity: float | np.ndarray
+    emissivity: float | np.ndarray = 0.0
+    density: float | np.ndarray = 0.0
+
+
+# --------------------------------------------------------------------------------------
+# Results
+# --------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class SinkSolution:
+    """Every node temperature, resistance and flow quantity of a solved heat sink.
+
+    All temperatures are absolute [K]; resistances [K W⁻¹]; flows [m³ s⁻¹]. Quantities that do
+    not apply to the case (e.g. pressure drop in natural convection) are NaN.
+    """
+
+    power: np.ndarray
+    inlet_air_temperature: np.ndarray
+    outlet_air_temperature: np.ndarray
+    base_temperature: np.ndarray
+    source_base_temperature: np.ndarray
+    case_temperature: np.ndarray
+    junction_temperature: np.ndarray
+    fin_tip_temperature: np.ndarray
+    junction_to_case_resistance: np.ndarray
+    interface_resistance: np.ndarray
+    spreading_resistance: np.ndarray
+    base_conduction_resistance: np.ndarray
+    sink_resistance: np.ndarray
+    convection_heat_rate: np.ndarray
+    radiation_heat_rate: np.ndarray
+    heat_transfer_coefficient: np.ndarray
+    fin_efficiency: np.ndarray
+    surface_efficiency: np.ndarray
+    volume_flow: np.ndarray
+    sink_volume_flow: np.ndarray
+    bypass_volume_flow: np.ndarray
+    approach_velocity: np.ndarray
+    channel_velocity: np.ndarray
+    pressure_drop: np.ndarray
+    mass_flow: np.ndarray
+    reynolds_number: np.ndarray
+    warnings: tuple[str, ...] = field(default=())
+
+    def node_temperature(self, node: str) -> np.ndarray:
+        """Temperature of a limit node (``junction``, ``case`` or ``base``) [K]."""
+        _check_node(node)
+        return {
+            "junction": self.junction_temperature,
+            "case": self.case_temperature,
+            "base": self.source_base_temperature,
+        }[node]
+
+    @property
+    def total_resistance(self) -> np.ndarray:
+        """Junction to inlet air [K W⁻¹]."""
+        return (
+            self.junction_to_case_resistance
+            + self.interface_resistance
+            + self.spreading_resistance
+            + self.base_conduction_resistance
+            + self.sink_resistance
+        )
+
+
+def _above_base(node: str, below_source, source: HeatSource):
+    """Resistance from the mean base (fin roots) up to a limit node [K W⁻¹]."""
+    above = below_source
+    if node in ("case", "junction"):
+        above = above + source.interface_resistance
+    if node == "junction":
+        above = above + source.junction_to_case_resistance
+    return above
+
+
+def _check_node(node: str) -> None:
+    if node not in NODES:
+        raise InputError(f"limit node: got {node!r}; allowed: {', '.join(NODES)}")
+
+
+# --------------------------------------------------------------------------------------
+# Airflow through the sink
+# --------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _Airflow:
+    volume_flow: np.ndarray
+    sink_volume_flow: np.ndarray
+    bypass_volume_flow: np.ndarray
+    approach_velocity: np.ndarray
+    pressure_drop: np.ndarray
+
+
+def _sink_frontal_area(geometry) -> np.ndarray:
+    """Frontal area of the finned region, across the flow [m²]."""
+    if isinstance(geometry, PlateFinSink):
+        return np.multiply(geometry.base_width, geometry.fin_height)
+    return np.multiply(geometry.base_width, geometry.pin_height)
+
+
+def _fin_height(geometry) -> np.ndarray:
+    return geometry.fin_height if isinstance(geometry, PlateFinSink) else geometry.pin_height
+
+
+def _bypass_geometry(geometry, bypass: Bypass | None):
+    """Flow area [m²] and equivalent hydraulic diameter [m] of the bypass gaps (or None)."""
+    if bypass is None:
+        return None
+    side, top = np.asarray(bypass.side_gap, float), np.asarray(bypass.top_gap, float)
+    height = _fin_height(geometry)
+    width = geometry.base_width
+    side_area = 2.0 * side * height
+    top_area = top * (width + 2.0 * side)
+    area = side_area + top_area
+    # Each gap is a slot: its hydraulic diameter is about twice its width. The area-weighted
+    # mean stands for the combined branch (common practice, no source).
+    with np.errstate(invalid="ignore", divide="ignore"):
+        hydraulic = np.where(area > 0, (side_area * 2 * side + top_area * 2 * top) / area, 0.0)
+    if np.all(area <= 0):
+        return None
+    return area, hydraulic
+
+
+def _duct_area(geometry, bypass: Bypass | None) -> np.ndarray:
+    frontal = _sink_frontal_area(geometry)
+    if bypass is None:
+        return frontal
+    height = _fin_height(geometry)
+    return (geometry.base_width + 2 * np.asarray(bypass.side_gap, float)) * (
+        height + np.asarray(bypass.top_gap, float)
+    )
+
+
+def sink_pressure_drop(geometry, volume_flow, density, dynamic_viscosity, *, is_shrouded=True):
+    """Static pressure drop across the finned region at a volume flow through it [Pa].
+
+    Plate fins: developing-flow apparent friction plus contraction and expansion losses;
+    pin fins: the tube-bank pressure-drop method of :mod:`finkit.correlations.forced`.
+    """
+    if isinstance(geometry, PlateFinSink):
+        flow = forced.plate_fin_channel_flow(
+            volume_flow,
+            geometry.base_width,
+            geometry.fin_count,
+            geometry.fin_thickness,
+            geometry.fin_height,
+            geometry.base_length,
+            density,
+            dynamic_viscosity,
+            1.0,
+            1.0,
+            is_shrouded=is_shrouded,
+        )
+    else:
+        flow = _pin_flow(geometry, volume_flow, density, dynamic_viscosity, 1.0, 1.0)
+    return flow.pressure_drop
+
+
+def _pin_flow(geometry: PinFinSink, volume_flow, density, viscosity, conductivity, prandtl):
+    return forced.pin_fin_bank_flow(
+        volume_flow,
+        geometry.base_width,
+        geometry.pin_diameter,
+        geometry.pin_height,
+        geometry.transverse_pitch,
+        geometry.longitudinal_pitch,
+        geometry.row_count,
+        geometry.arrangement,
+        density,
+        viscosity,
+        conductivity,
+        prandtl,
+        base_length=geometry.base_length,
+    )
+
+
+def solve_airflow(geometry, flow: Flow, air: Air, bypass: Bypass | None = None) -> _Airflow:
+    """Volume flow through the fins and round them, and the pressure drop, for a forced case.
+
+    The approach velocity of :class:`GivenVelocity` is taken over the duct section (finned
+    region plus bypass gaps). With a bypass, the flow splits so that the fins and the gaps see
+    the same pressure difference (methods.md h). With a fan, the fan curve, scaled to the inlet
+    density, is crossed with that combined system curve.
+    """
+    inlet = air_properties(air.inlet_temperature, air.pressure)
+    rho, mu = inlet.density, inlet.dynamic_viscosity
+    shrouded = bypass is None or np.all(np.asarray(bypass.top_gap) <= 0)
+    gaps = _bypass_geometry(geometry, bypass)
+
+    def dp_sink(q):
+        return sink_pressure_drop(geometry, q, rho, mu, is_shrouded=shrouded)
+
+    if gaps is not None:
+        gap_area, gap_diameter = gaps
+        loss = bypass.loss_coefficient
+
+        def dp_bypass(q):
+            return bypass_gap_pressure_drop(
+                q, gap_area, gap_diameter, geometry.base_length, rho, mu, loss_coefficient=loss
+            )
+
+        def system(q):
+            return split_bypass(q, dp_sink, dp_bypass).pressure_drop
+
+    else:
+        system = dp_sink
+
+    if isinstance(flow, FanDriven):
+        point = operating_point(flow.fan, system, density=rho)
+        if not np.all(point.is_converged):
+            raise SolverError(
+                "air.flow.fan: the fan curve does not cross the system curve for "
+                f"{int(np.sum(~np.asarray(point.is_converged)))} design(s); no operating point"
+            )
+        total = np.asarray(point.volume_flow, float)
+    elif isinstance(flow, GivenVolumeFlow):
+        total = np.asarray(flow.volume_flow, float)
+    elif isinstance(flow, GivenVelocity):
+        total = np.asarray(flow.approach_velocity, float) * _duct_area(geometry, bypass)
+    else:
+        raise InputError("air.flow: natural convection has no forced airflow to solve")
+
+    if gaps is not None:
+        split = split_bypass(total, dp_sink, dp_bypass)
+        q_sink, q_bypass, dp = split.sink_volume_flow, split.bypass_volume_flow, split.pressure_drop
+    else:
+        q_sink, q_bypass = total, np.zeros_like(total)
+        dp = dp_sink(total)
+    approach = total / _duct_area(geometry, bypass)
+    return _Airflow(
+        *np.broadcast_arrays(
+            np.asarray(total, float),
+            np.asarray(q_sink, float),
+            np.asarray(q_bypass, float),
+            np.asarray(approach, float),
+            np.asarray(dp, float),
+        )
+    )
+
+
+# --------------------------------------------------------------------------------------
+# Forced convection: fins and base to air
+# --------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _Convection:
+    sink_resistance: np.ndarray
+    heat_transfer_coefficient: np.ndarray
+    fin_efficiency: np.ndarray
+    surface_efficiency: np.ndarray
+    tip_ratio: np.ndarray  # fin tip excess over base excess (to the reference air)
+    channel_velocity: np.ndarray
+    reynolds_number: np.ndarray
+    warnings: tuple[str, ...]
+
+
+def _straight_fin_efficiency(h, k, thickness, length):
+    """Adiabatic-tip efficiency tanh(mL)/(mL) of a thin straight fin, m = sqrt(2h/(k t))."""
+    mL = np.sqrt(2.0 * h / (k * thickness)) * length
+    return np.where(mL > 1e-8, np.tanh(mL) / np.where(mL > 1e-8, mL, 1.0), 1.0), mL
+
+
+def _pin_efficiency(h, k, diameter, length):
+    """Adiabatic-tip efficiency tanh(mL)/(mL) of a pin, m = sqrt(4h/(k D))."""
+    mL = np.sqrt(4.0 * h / (k * diameter)) * length
+    return np.where(mL > 1e-8, np.tanh(mL) / np.where(mL > 1e-8, mL, 1.0), 1.0), mL
+
+
+def _forced_convection(geometry, material, film, airflow: _Airflow, inlet_density, is_shrouded):
+    """Sink resistance (mean base to inlet air) for forced flow at given film properties."""
+    k_s = material.thermal_conductivity
+    warnings: list[str] = []
+    if isinstance(geometry, PlateFinSink):
+        flow = forced.plate_fin_channel_flow(
+            airflow.sink_volume_flow,
+            geometry.base_width,
+            geometry.fin_count,
+            geometry.fin_thickness,
+            geometry.fin_height,
+            geometry.base_length,
+            film.density,
+            film.dynamic_viscosity,
+            film.thermal_conductivity,
+            film.prandtl,
+            is_shrouded=is_shrouded,
+        )
+        h = flow.heat_transfer_coefficient
+        t, H, L, N = (
+            geometry.fin_thickness,
+            geometry.fin_height,
+            geometry.base_length,
+            geometry.fin_count,
+        )
+        # Corrected length only when the tip sees the flow (methods.md, pitfall 5).
+        length = np.where(is_shrouded, H, H + t / 2.0)
+        eta_f, mL = _straight_fin_efficiency(h, k_s, t, length)
+        fin_area = N * 2.0 * length * L
+        base_area = geometry.base_exposed_area
+        conductance_fins = eta_f * h * fin_area
+        conductance = conductance_fins + h * base_area
+        inlet_referenced = np.asarray(flow.is_inlet_referenced, bool)
+        channel_velocity = flow.channel_velocity
+        reynolds = flow.modified_reynolds
+        warnings += forced.plate_fin_flow_warnings(flow)
+        transverse_biot = h * (t / 2.0) / k_s
+    else:
+        flow = _pin_flow(
+            geometry,
+            airflow.sink_volume_flow,
+            film.density,
+            film.dynamic_viscosity,
+            film.thermal_conductivity,
+            film.prandtl,
+        )
+        h = flow.heat_transfer_coefficient
+        D, H = geometry.pin_diameter, geometry.pin_height
+        length = np.where(is_shrouded, H, H + D / 4.0)
+        eta_f, mL = _pin_efficiency(h, k_s, D, length)
+        fin_area = geometry.pin_count * np.pi * D * length
+        base_area = geometry.base_exposed_area
+        conductance_fins = eta_f * h * fin_area
+        conductance = conductance_fins + flow.base_heat_transfer_coefficient * base_area
+        inlet_referenced = np.asarray(flow.is_inlet_referenced, bool)
+        channel_velocity = flow.max_velocity
+        reynolds = flow.reynolds_max
+        warnings += forced.pin_fin_flow_warnings(flow)
+        transverse_biot = h * (D / 4.0) / k_s
+
+    warnings += one_dimensional_fin_warnings(transverse_biot)
+    total_area = fin_area + base_area
+    eta_o = 1.0 - fin_area / total_area * (1.0 - eta_f)
+    capacity = inlet_density * airflow.sink_volume_flow * film.specific_heat  # W/K
+    # Inlet-referenced h (Teertstra): the air heating is inside h already (methods.md e2, j).
+    # Bulk-referenced h: isothermal-base effectiveness, eps = 1 - exp(-NTU) (methods.md j).
+    ntu = conductance / capacity
+    effectiveness = -np.expm1(-ntu)
+    r_sink = np.where(inlet_referenced, 1.0 / conductance, 1.0 / (effectiveness * capacity))
+    # An inlet-referenced model can never beat the fully heated limit m cp (guard of e2).
+    r_sink = np.maximum(r_sink, 1.0 / capacity)
+    tip_ratio = 1.0 / np.cosh(mL)
+    return _Convection(
+        sink_resistance=r_sink,
+        heat_transfer_coefficient=np.asarray(h, float),
+        fin_efficiency=np.asarray(eta_f, float),
+        surface_efficiency=np.asarray(eta_o, float),
+        tip_ratio=tip_ratio,
+        channel_velocity=np.asarray(channel_velocity, float),
+        reynolds_number=np.asarray(reynolds, float),
+        warnings=tuple(dict.fromkeys(warnings)),
+    )
+
+
+def _chain(geometry, material, source: HeatSource, sink_resistance):
+    """Spreading and base conduction below the source for a given sink resistance [K W⁻¹]."""
+    plate_area = np.multiply(geometry.base_width, geometry.base_length)
+    spread = spreading_resistance_song_lee_au(
+        source.footprint_area,
+        plate_area,
+        geometry.base_thickness,
+        material.thermal_conductivity,
+        sink_resistance,
+    )
+    return spread.average, spread.one_dimensional
+
+
+def _assemble(
+    *,
+    power,
+    air: Air,
+    source: HeatSource,
+    spreading,
+    base_conduction,
+    sink_resistance,
+    mass_flow,
+    specific_heat,
+    conv_tip_ratio,
+    convection_heat_rate,
+    radiation_heat_rate,
+    h,
+    eta_f,
+    eta_o,
+    airflow: _Airflow | None,
+    channel_velocity,
+    reynolds,
+    warnings,
+):
+    power = np.asarray(power, float)
+    t_in = np.asarray(air.inlet_temperature, float)
+    base = t_in + power * sink_resistance
+    source_base = base + power * (spreading + base_conduction)
+    case = source_base + power * source.interface_resistance
+    junction = case + power * source.junction_to_case_resistance
+    with np.errstate(divide="ignore", invalid="ignore"):
+        outlet = t_in + np.where(mass_flow > 0, power / (mass_flow * specific_heat), np.nan)
+    # Fin tip referred to the inlet air: a conservative (hotter) estimate for a hot-surface check.
+    tip = t_in + (base - t_in) * conv_tip_ratio
+    nan = np.full_like(power * 1.0, np.nan)
+    if airflow is None:
+        flows = (nan, nan, nan, nan, nan)
+    else:
+        flows = (
+            airflow.volume_flow,
+            airflow.sink_volume_flow,
+            airflow.bypass_volume_flow,
+            airflow.approach_velocity,
+            airflow.pressure_drop,
+        )
+    arrays = np.broadcast_arrays(
+        power,
+        t_in,
+        outlet,
+        base,
+        source_base,
+        case,
+        junction,
+        tip,
+        source.junction_to_case_resistance,
+        source.interface_resistance,
+        spreading,
+        base_conduction,
+        sink_resistance,
+        convection_heat_rate,
+        radiation_heat_rate,
+        h,
+        eta_f,
+        eta_o,
+        *flows,
+        channel_velocity,
+        mass_flow,
+        reynolds,
+    )
+    arrays = [np.array(a, dtype=float) for a in arrays]
+    (
+        power,
+        t_in,
+        outlet,
+        base,
+        source_base,
+        case,
+        junction,
+        tip,
+        r_jc,
+        r_int,
+        r_sp,
+        r_base,
+        r_sink,
+        q_conv,
+        q_rad,
+        h,
+        eta_f,
+        eta_o,
+        volume_flow,
+        sink_flow,
+        bypass_flow,
+        approach,
+        dp,
+        channel_velocity,
+        mass_flow,
+        reynolds,
+    ) = arrays
+    return SinkSolution(
+        power=power,
+        inlet_air_temperature=t_in,
+        outlet_air_temperature=outlet,
+        base_temperature=base,
+        source_base_temperature=source_base,
+        case_temperature=case,
+        junction_temperature=junction,
+        fin_tip_temperature=tip,
+        junction_to_case_resistance=r_jc,
+        interface_resistance=r_int,
+        spreading_resistance=r_sp,
+        base_conduction_resistance=r_base,
+        sink_resistance=r_sink,
+        convection_heat_rate=q_conv,
+        radiation_heat_rate=q_rad,
+        heat_transfer_coefficient=h,
+        fin_efficiency=eta_f,
+        surface_efficiency=eta_o,
+        volume_flow=volume_flow,
+        sink_volume_flow=sink_flow,
+        bypass_volume_flow=bypass_flow,
+        approach_velocity=approach,
+        channel_velocity=channel_velocity,
+        pressure_drop=dp,
+        mass_flow=mass_flow,
+        reynolds_number=reynolds,
+        warnings=tuple(dict.fromkeys(warnings)),
+    )
+
+
+def _solve_forced(geometry, material, source, air, flow, bypass, *, power=None, limit=None):
+    """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``."""
+    airflow = solve_airflow(geometry, flow, air, bypass)
+    inlet = air_properties(air.inlet_temperature, air.pressure)
+    is_shrouded = bypass is None or np.all(np.asarray(bypass.top_gap) <= 0)
+    t_in = np.asarray(air.inlet_temperature, float)
+    base_excess = np.zeros_like(t_in)
+    for _ in range(FILM_ITERATIONS):
+        film = air_properties(t_in + 0.5 * base_excess, air.pressure)
+        conv = _forced_convection(geometry, material, film, airflow, inlet.density, is_shrouded)
+        r_sp, r_base = _chain(geometry, material, source, conv.sink_resistance)
+        if limit is None:
+            q = np.asarray(power, float)
+        else:
+            node, t_limit = limit
+            above_base = _above_base(node, r_sp + r_base, source)
+            q = np.maximum(t_limit - t_in, 0.0) / (conv.sink_resistance + above_base)
+        base_excess = q * conv.sink_resistance
+    mass_flow = inlet.density * airflow.sink_volume_flow
+    return _assemble(
+        power=q,
+        air=air,
+        source=source,
+        spreading=r_sp,
+        base_conduction=r_base,
+        sink_resistance=conv.sink_resistance,
+        mass_flow=mass_flow,
+        specific_heat=film.specific_heat,
+        conv_tip_ratio=conv.tip_ratio,
+        convection_heat_rate=q,
+        radiation_heat_rate=np.zeros_like(np.asarray(q, float)),
+        h=conv.heat_transfer_coefficient,
+        eta_f=conv.fin_efficiency,
+        eta_o=conv.surface_efficiency,
+        airflow=airflow,
+        channel_velocity=conv.channel_velocity,
+        reynolds=conv.reynolds_number,
+        warnings=conv.warnings,
+    )
+
+
+# --------------------------------------------------------------------------------------
+# Natural convection with radiation (vertical plate fins)
+# --------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _NaturalState:
+    power: np.ndarray
+    convection_heat_rate: np.ndarray
+    radiation_heat_rate: np.ndarray
+    h: np.ndarray
+    eta_f: np.ndarray
+    eta_o: np.ndarray
+    tip_ratio: np.ndarray
+    rayleigh: np.ndarray
+    optimum_spacing: np.ndarray
+    elenbaas: np.ndarray
+
+
+def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) -> _NaturalState:
+    """Heat leaving a vertical plate-fin sink at a given base excess temperature [W].
+
+    Convection: Bar-Cohen & Rohsenow channel coefficient on the channel faces and the base
+    between fins, Churchill & Chu on the outer faces of the two end fins, fin efficiency of the
+    adiabatic-tip fin with corrected length. Radiation: envelope method at the mean surface
+    temperature T_in + eta_o (T_b - T_in) (methods.md g2, g3).
+    """
+    t_in = np.asarray(air.inlet_temperature, float)
+    t_sur = t_in if air.surroundings_temperature is None else air.surroundings_temperature
+    base_excess = np.asarray(base_excess, float)
+    surface = t_in + base_excess
+    film = air_properties(t_in + 0.5 * base_excess, air.pressure)
+    nat = natural.plate_fin_array_natural(
+        geometry.fin_spacing,
+        geometry.fin_height,
+        geometry.base_length,
+        geometry.fin_thickness,
+        geometry.fin_count,
+        geometry.base_width,
+        surface,
+        t_in,
+        film.density,
+        film.dynamic_viscosity,
+        film.thermal_conductivity,
+        film.prandtl,
+    )
+    h = nat.heat_transfer_coefficient
+    t, H, L, N = geometry.fin_thickness, geometry.fin_height, geometry.base_length, geometry.fin_count
+    length = H + t / 2.0
+    eta_f, mL = _straight_fin_efficiency(h, material.thermal_conductivity, t, length)
+    # Channel faces: 2(N-1) faces; the two outer faces of the end fins get the isolated-plate h.
+    inner_fin_area = 2.0 * (N - 1) * H * L + N * t * L
+    outer_fin_area = 2.0 * H * L
+    base_area = geometry.base_exposed_area
+    h_out = nat.outer_face_heat_transfer_coefficient
+    eta_out, _ = _straight_fin_efficiency(h_out, material.thermal_conductivity, t, length)
+    conductance = eta_f * h * inner_fin_area + eta_out * h_out * outer_fin_area + h * base_area
+    total_area = inner_fin_area + outer_fin_area + base_area
+    eta_o = conductance / (h * total_area)
+    q_conv = conductance * base_excess
+    mean_surface = t_in + np.minimum(eta_o, 1.0) * base_excess
+    rad = plate_fin_radiation(
+        geometry.fin_spacing,
+        H,
+        L,
+        t,
+        N,
+        geometry.base_width,
+        geometry.base_length,
+        geometry.base_thickness,
+        material.emissivity,
+        mean_surface,
+        t_sur,
+    )
+    return _NaturalState(
+        power=q_conv + rad.heat_rate,
+        convection_heat_rate=q_conv,
+        radiation_heat_rate=np.asarray(rad.heat_rate, float),
+        h=np.asarray(h, float),
+        eta_f=np.asarray(eta_f, float),
+        eta_o=np.asarray(eta_o, float),
+        tip_ratio=1.0 / np.cosh(mL),
+        rayleigh=np.asarray(nat.rayleigh_spacing, float),
+        optimum_spacing=np.asarray(nat.optimum_spacing, float),
+        elenbaas=np.asarray(nat.elenbaas, float),
+    )
+
+
+def _find_base_excess(residual, shape, upper=600.0):
+    """Vectorised bracketed root of ``residual(base_excess)`` on (0, upper] K."""
+    lo = np.full(shape, 1e-6)
+    hi = np.full(shape, upper)
+    res = elementwise.find_root(residual, (lo, hi), tolerances={"xatol": 1e-9, "xrtol": 1e-10})
+    if not np.all(res.success):
+        raise SolverError(
+            "natural convection: no base temperature between the inlet air and "
+            f"{upper:.0f} K above it satisfies the heat balance"
+        )
+    return res.x
+
+
+def _solve_natural(geometry, material, source, air, flow, *, power=None, limit=None):
+    natural.natural_orientation_check(flow.orientation)
+    if not isinstance(geometry, PlateFinSink):
+        raise InputError(
+            "sink.type: natural convection is covered for plate fins only "
+            "(no published pin-fin array method in finkit)"
+        )
+    t_in = np.asarray(air.inlet_temperature, float)
+    plate_area = np.multiply(geometry.base_width, geometry.base_length)
+
+    def rest(sink_resistance, node):
+        spread = spreading_resistance_song_lee_au(
+            source.footprint_area,
+            plate_area,
+            geometry.base_thickness,
+            material.thermal_conductivity,
+            sink_resistance,
+        )
+        return _above_base(node, spread.average + spread.one_dimensional, source)
+
+    shape = np.broadcast_shapes(
+        np.shape(t_in),
+        np.shape(power if power is not None else 0.0),
+        np.shape(limit[1] if limit else 0.0),
+        np.shape(geometry.fin_count),
+        np.shape(geometry.base_width),
+        np.shape(geometry.fin_height),
+        np.shape(material.thermal_conductivity),
+        np.shape(source.interface_resistance),
+        np.shape(source.junction_to_case_resistance),
+    )
+    if limit is None:
+        target = np.broadcast_to(np.asarray(power, float), shape)
+
+        def residual(theta):
+            return _natural_heat_rate(geometry, material, air, theta).power - target
+
+    else:
+        node, t_limit = limit
+
+        def residual(theta):
+            state = _natural_heat_rate(geometry, material, air, theta)
+            r_sink = theta / state.power
+            return t_in + theta + state.power * rest(r_sink, node) - t_limit
+
+    theta = _find_base_excess(residual, shape)
+    state = _natural_heat_rate(geometry, material, air, theta)
+    q = state.power
+    r_sink = theta / q
+    spread = spreading_resistance_song_lee_au(
+        source.footprint_area,
+        plate_area,
+        geometry.base_thickness,
+        material.thermal_conductivity,
+        r_sink,
+    )
+    warnings = list(natural.plate_fin_natural_warnings(state.elenbaas, state.rayleigh))
+    warnings += one_dimensional_fin_warnings(state.h * geometry.fin_thickness / 2.0 / material.thermal_conductivity)
+    return _assemble(
+        power=q,
+        air=air,
+        source=source,
+        spreading=spread.average,
+        base_conduction=spread.one_dimensional,
+        sink_resistance=r_sink,
+        mass_flow=np.zeros_like(q),
+        specific_heat=1.0,
+        conv_tip_ratio=state.tip_ratio,
+        convection_heat_rate=state.convection_heat_rate,
+        radiation_heat_rate=state.radiation_heat_rate,
+        h=state.h,
+        eta_f=state.eta_f,
+        eta_o=state.eta_o,
+        airflow=None,
+        channel_velocity=np.full_like(q, np.nan),
+        reynolds=state.rayleigh,
+        warnings=warnings,
+    ), state
+
+
+# --------------------------------------------------------------------------------------
+# The two design questions
+# --------------------------------------------------------------------------------------
+
+
+def solve_temperatures(
+    geometry: PlateFinSink | PinFinSink,
+    material: SinkMaterial,
+    source: HeatSource,
+    air: Air,
+    flow: Flow,
+    bypass: Bypass | None = None,
+) -> SinkSolution:
+    """At this power, how hot does each node get?
+
+    Parameters
+    ----------
+    geometry : PlateFinSink or PinFinSink
+        The sink (fields may be arrays for a sweep over designs).
+    material : SinkMaterial
+        Sink conductivity [W m⁻¹ K⁻¹] and emissivity [-].
+    source : HeatSource
+        Power [W], footprint [m], RθJC and interface resistance [K W⁻¹].
+    air : Air
+        Inlet air temperature [K] and pressure [Pa].
+    flow : GivenVelocity, GivenVolumeFlow, FanDriven or NaturalConvection
+        How the air moves.
+    bypass : Bypass, optional
+        Duct clearance round the sink (forced convection only); None = fully shrouded.
+
+    Returns
+    -------
+    SinkSolution
+        Node temperatures [K], resistances [K W⁻¹], flows, efficiencies and warnings.
+    """
+    if isinstance(flow, NaturalConvection):
+        return _solve_natural(geometry, material, source, air, flow, power=source.power)[0]
+    return _solve_forced(geometry, material, source, air, flow, bypass, power=source.power)
+
+
+def solve_allowable_power(
+    geometry: PlateFinSink | PinFinSink,
+    material: SinkMaterial,
+    source: HeatSource,
+    air: Air,
+    flow: Flow,
+    limit_node: Literal["junction", "case", "base"],
+    limit_temperature,
+    bypass: Bypass | None = None,
+) -> SinkSolution:
+    """At this temperature limit on a node, how much power can the sink carry?
+
+    The power in ``source`` is ignored; the returned solution is the state at the allowable
+    power (its ``power`` field), with the limit node exactly at ``limit_temperature`` [K].
+    Air heating and the film-temperature property feedback are included. Where the inlet air
+    is already at or above the limit, the allowable power is zero.
+    """
+    _check_node(limit_node)
+    limit = (limit_node, np.asarray(limit_temperature, float))
+    if isinstance(flow, NaturalConvection):
+        t_in = np.asarray(air.inlet_temperature, float)
+        if np.any(limit[1] <= t_in):
+            raise InputError(
+                "limit.temperature: must be above the inlet air temperature for natural "
+                "convection (no heat can leave otherwise)"
+            )
+        return _solve_natural(geometry, material, source, air, flow, limit=limit)[0]
+    return _solve_forced(geometry, material, source, air, flow, bypass, limit=limit)
