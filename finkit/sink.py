@@ -36,9 +36,14 @@ from dataclasses import dataclass, field
 from typing import Literal
 
 import numpy as np
-from scipy.optimize import elementwise
 
-from finkit.airflow import FanCurve, bypass_gap_pressure_drop, operating_point, split_bypass
+from finkit.airflow import (
+    FanCurve,
+    bracketed_root,
+    bypass_gap_pressure_drop,
+    operating_point,
+    split_bypass,
+)
 from finkit.correlations import forced, natural
 from finkit.errors import InputError, SolverError
 from finkit.fins.analytic import one_dimensional_fin_warnings
@@ -46,7 +51,6 @@ from finkit.geometry import PinFinSink, PlateFinSink
 from finkit.properties.air import air_properties
 from finkit.radiation import plate_fin_radiation
 from finkit.spreading import spreading_resistance_song_lee_au
-from finkit.validity import check_range
 
 NODES = ("junction", "case", "base")
 """Nodes a temperature limit may be placed on. ``base`` is the base surface under the source
@@ -716,6 +720,7 @@ class _NaturalState:
     eta_o: np.ndarray
     tip_ratio: np.ndarray
     rayleigh: np.ndarray
+    rayleigh_length: np.ndarray
     optimum_spacing: np.ndarray
     elenbaas: np.ndarray
 
@@ -748,7 +753,12 @@ def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) 
         film.prandtl,
     )
     h = nat.heat_transfer_coefficient
-    t, H, L, N = geometry.fin_thickness, geometry.fin_height, geometry.base_length, geometry.fin_count
+    t, H, L, N = (
+        geometry.fin_thickness,
+        geometry.fin_height,
+        geometry.base_length,
+        geometry.fin_count,
+    )
     length = H + t / 2.0
     eta_f, mL = _straight_fin_efficiency(h, material.thermal_conductivity, t, length)
     # Channel faces: 2(N-1) faces; the two outer faces of the end fins get the isolated-plate h.
@@ -758,8 +768,9 @@ def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) 
     h_out = nat.outer_face_heat_transfer_coefficient
     eta_out, _ = _straight_fin_efficiency(h_out, material.thermal_conductivity, t, length)
     conductance = eta_f * h * inner_fin_area + eta_out * h_out * outer_fin_area + h * base_area
-    total_area = inner_fin_area + outer_fin_area + base_area
-    eta_o = conductance / (h * total_area)
+    # Surface efficiency: heat from the real surface over that from the same surface at the
+    # base temperature, each face with its own coefficient.
+    eta_o = conductance / (h * (inner_fin_area + base_area) + h_out * outer_fin_area)
     q_conv = conductance * base_excess
     mean_surface = t_in + np.minimum(eta_o, 1.0) * base_excess
     rad = plate_fin_radiation(
@@ -784,20 +795,24 @@ def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) 
         eta_o=np.asarray(eta_o, float),
         tip_ratio=1.0 / np.cosh(mL),
         rayleigh=np.asarray(nat.rayleigh_spacing, float),
+        rayleigh_length=np.asarray(nat.rayleigh_length, float),
         optimum_spacing=np.asarray(nat.optimum_spacing, float),
         elenbaas=np.asarray(nat.elenbaas, float),
     )
 
 
-def _find_base_excess(residual, shape, upper=600.0):
-    """Vectorised bracketed root of ``residual(base_excess)`` on (0, upper] K."""
+def _find_base_excess(residual, shape, inlet_temperature, upper=400.0):
+    """Vectorised bracketed root of ``residual(base_excess)`` on (0, upper] K.
+
+    The bracket also keeps the film temperature inside the air-property table (≤ 495 K).
+    """
     lo = np.full(shape, 1e-6)
-    hi = np.full(shape, upper)
-    res = elementwise.find_root(residual, (lo, hi), tolerances={"xatol": 1e-9, "xrtol": 1e-10})
-    if not np.all(res.success):
+    hi = np.broadcast_to(np.minimum(upper, 2.0 * (495.0 - inlet_temperature)), shape).copy()
+    res = bracketed_root(residual, lo, hi, xatol=1e-9, xrtol=1e-10)
+    if not np.all(res.is_converged):
         raise SolverError(
             "natural convection: no base temperature between the inlet air and "
-            f"{upper:.0f} K above it satisfies the heat balance"
+            f"{float(np.min(hi)):.0f} K above it satisfies the heat balance"
         )
     return res.x
 
@@ -847,7 +862,7 @@ def _solve_natural(geometry, material, source, air, flow, *, power=None, limit=N
             r_sink = theta / state.power
             return t_in + theta + state.power * rest(r_sink, node) - t_limit
 
-    theta = _find_base_excess(residual, shape)
+    theta = _find_base_excess(residual, shape, t_in)
     state = _natural_heat_rate(geometry, material, air, theta)
     q = state.power
     r_sink = theta / q
@@ -858,8 +873,12 @@ def _solve_natural(geometry, material, source, air, flow, *, power=None, limit=N
         material.thermal_conductivity,
         r_sink,
     )
-    warnings = list(natural.plate_fin_natural_warnings(state.elenbaas, state.rayleigh))
-    warnings += one_dimensional_fin_warnings(state.h * geometry.fin_thickness / 2.0 / material.thermal_conductivity)
+    warnings = list(
+        natural.plate_fin_natural_warnings(state.elenbaas, rayleigh_length=state.rayleigh_length)
+    )
+    warnings += one_dimensional_fin_warnings(
+        state.h * geometry.fin_thickness / 2.0 / material.thermal_conductivity
+    )
     return _assemble(
         power=q,
         air=air,

@@ -1,0 +1,184 @@
+"""finkit's command line: ``finkit new``, ``finkit check``, ``finkit note``.
+
+Each sub-command parses its arguments and calls one public function; no physics here.
+
+Exit codes: 0 the case passes its limit (or the command did its job); 1 the case fails its
+limit; 2 the input is wrong (every :class:`finkit.errors.FinkitError` is printed to stderr as its
+one-line message(s), never as a traceback) or the command line itself is wrong.
+
+``finkit.model`` and ``finkit.notes`` are imported inside the sub-commands, so ``finkit new``
+works without them.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from importlib import resources
+from pathlib import Path
+
+from finkit.errors import FinkitError
+
+STARTERS = ("plate-fin", "pin-fin", "natural", "single-fin")
+
+EXIT_PASS, EXIT_FAIL, EXIT_INPUT = 0, 1, 2
+
+
+def starter_text(kind: str) -> str:
+    """The commented starter case file for ``kind`` (one of :data:`STARTERS`)."""
+    if kind not in STARTERS:
+        raise FinkitError(f"starter: unknown kind '{kind}' (allowed: {', '.join(STARTERS)})")
+    return (resources.files("finkit") / "data" / "starters" / f"{kind}.yaml").read_text("utf-8")
+
+
+def _new(args) -> int:
+    text = starter_text(args.kind)
+    out = Path(args.out) if args.out else Path(f"{args.kind}.yaml")
+    if out.exists() and not args.force:
+        raise FinkitError(f"--out: '{out}' already exists (use --force to overwrite it)")
+    try:
+        out.parent.mkdir(parents=True, exist_ok=True)
+        out.write_text(text, encoding="utf-8")
+    except OSError as exc:
+        raise FinkitError(f"--out: cannot write '{out}' ({exc.strerror})") from None
+    print(f"wrote {out}; edit it, then run: finkit check {out}")
+    return EXIT_PASS
+
+
+def _number(value) -> str:
+    if value is None:
+        return "-"
+    if isinstance(value, bool):
+        return str(value)
+    if isinstance(value, int | float):
+        return f"{value:.4g}"
+    return str(value)
+
+
+def _rows(payload: dict) -> list[tuple[str, str, str]]:
+    rows = []
+    for name, entry in (payload.get("results") or {}).items():
+        if isinstance(entry, dict):
+            value, unit = entry.get("value"), entry.get("unit", "")
+        elif isinstance(entry, list | tuple) and len(entry) == 2:
+            value, unit = entry
+        else:
+            value, unit = entry, ""
+        rows.append((name, _number(value), "" if unit in (None, "1") else str(unit)))
+    return rows
+
+
+def _print_table(case_id: str, status: str, rows, warnings) -> None:
+    width = max([len(r[0]) for r in rows] + [len("result")])
+    vwidth = max([len(r[1]) for r in rows] + [len("value")])
+    print(f"case {case_id}")
+    print(f"{'result':<{width}}  {'value':>{vwidth}}  unit")
+    for name, value, unit in rows:
+        print(f"{name:<{width}}  {value:>{vwidth}}  {unit}".rstrip())
+    print(f"status: {status}")
+    if warnings:
+        print("warnings:")
+        for line in warnings:
+            print(f"  - {line}")
+
+
+def _check(args) -> int:
+    from finkit.case import load_case
+
+    case = load_case(Path(args.case))
+    from finkit.model import run_case
+
+    result = run_case(case)
+    payload = result.to_json_dict()
+    status = str(getattr(result, "status", payload.get("status")))
+    if args.json:
+        print(json.dumps(payload, indent=2, ensure_ascii=False))
+    else:
+        _print_table(case.case_id, status, _rows(payload), list(result.warnings))
+    return EXIT_FAIL if status == "fail" else EXIT_PASS
+
+
+def _note(args) -> int:
+    from finkit.notes import render_note
+
+    case_path = Path(args.case)
+    output = render_note(case_path, args.out, show_code=args.show_code)
+    html = getattr(output, "html", output)
+    print(f"note written: {html}")
+    for label in ("notebook", "results_json"):
+        path = getattr(output, label, None)
+        if path is not None:
+            print(f"  {label.replace('_', '.')}: {path}")
+    status = _status_of(getattr(output, "results_json", None))
+    if status is not None:
+        print(f"status: {status}")
+    return EXIT_FAIL if status == "fail" else EXIT_PASS
+
+
+def _status_of(results_json) -> str | None:
+    """The case status recorded in a note's results.json (``None`` if it cannot be read)."""
+    if results_json is None:
+        return None
+    try:
+        data = json.loads(Path(results_json).read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return None
+    inner = data.get("results") if isinstance(data.get("results"), dict) else {}
+    status = inner.get("status", data.get("status"))
+    return status if isinstance(status, str) else None
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``finkit`` command."""
+    from finkit import __version__
+
+    parser = argparse.ArgumentParser(
+        prog="finkit",
+        description="Finned surfaces and heat sinks for air cooling: check a case file, "
+        "write a calculation note.",
+        epilog="Exit codes: 0 pass, 1 the case fails its limit, 2 input error.",
+    )
+    parser.add_argument("--version", action="version", version=f"finkit {__version__}")
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    new = sub.add_parser("new", help="write a commented starter case file")
+    new.add_argument("kind", choices=STARTERS, help="which starter")
+    new.add_argument("--out", metavar="FILE", help="file to write (default: KIND.yaml)")
+    new.add_argument("--force", action="store_true", help="overwrite an existing file")
+    new.set_defaults(func=_new)
+
+    check = sub.add_parser("check", help="validate and solve a case; print the results")
+    check.add_argument("case", metavar="CASE.yaml")
+    check.add_argument("--json", action="store_true", help="print results.json content instead")
+    check.set_defaults(func=_check)
+
+    note = sub.add_parser("note", help="write the dated calculation note of a case")
+    note.add_argument("case", metavar="CASE.yaml")
+    note.add_argument("--out", metavar="DIR", required=True, help="output folder")
+    note.add_argument("--show-code", action="store_true", help="keep code cells in the note")
+    note.set_defaults(func=_note)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the ``finkit`` command; returns the exit code (0 pass, 1 fail, 2 input error)."""
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # --help, --version, or a usage error (argparse exits 2)
+        return int(exc.code or 0)
+    try:
+        return args.func(args)
+    except FinkitError as exc:
+        lines = getattr(exc, "errors", None) or str(exc).splitlines() or [type(exc).__name__]
+        for line in lines:
+            print(line, file=sys.stderr)
+        return EXIT_INPUT
+    except KeyboardInterrupt:
+        print("interrupted", file=sys.stderr)
+        return 130
+
+
+if __name__ == "__main__":
+    sys.exit(main())
