@@ -1,4 +1,4 @@
-"""finkit: finned surfaces and heat sinks for air cooling, from physics to a signed calculation note."""
+"""finkit: finned surfaces and heat sinks for air cooling, from physics to a signed note."""
 
 from importlib.metadata import PackageNotFoundError, version
 

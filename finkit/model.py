@@ -25,12 +25,14 @@ from finkit.geometry import PinFinSink, PlateFinSink
 from finkit.properties.atmosphere import standard_atmosphere
 from finkit.properties.materials import get_material, material_emissivity
 from finkit.sink import (
+    DEFAULT_OPTIONS,
     Air,
     Bypass,
     FanDriven,
     GivenVelocity,
     GivenVolumeFlow,
     HeatSource,
+    ModelOptions,
     NaturalConvection,
     SinkMaterial,
     SinkSolution,
@@ -82,6 +84,7 @@ class SinkInputs:
     limit_node: str
     limit_temperature: float
     required_margin: float
+    options: ModelOptions = DEFAULT_OPTIONS
 
 
 @dataclass(frozen=True)
@@ -247,7 +250,7 @@ def _c(kelvin):
 def solve(inputs: SinkInputs, **replacements) -> SinkSolution:
     """Temperatures at the stated power; ``replacements`` swap whole input objects."""
     i = replace(inputs, **replacements) if replacements else inputs
-    return solve_temperatures(i.geometry, i.material, i.source, i.air, i.flow, i.bypass)
+    return solve_temperatures(i.geometry, i.material, i.source, i.air, i.flow, i.bypass, i.options)
 
 
 def allowable(inputs: SinkInputs, margin: float | None = None, **replacements) -> SinkSolution:
@@ -263,6 +266,7 @@ def allowable(inputs: SinkInputs, margin: float | None = None, **replacements) -
         i.limit_node,
         np.asarray(i.limit_temperature, float) - margin,
         i.bypass,
+        i.options,
     )
 
 

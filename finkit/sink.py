@@ -32,6 +32,7 @@ Every function here takes SI floats or numpy arrays that broadcast together and 
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Literal
 
@@ -174,6 +175,50 @@ class SinkMaterial:
     density: float | np.ndarray = 0.0
 
 
+@dataclass(frozen=True)
+class ModelOptions:
+    """Model choices and allowances of a heat-sink solve.
+
+    The factors may be arrays (one value per design, scenario or Monte Carlo sample).
+
+    Attributes
+    ----------
+    plate_channel_method : str
+        Plate-fin channel heat transfer, one of ``forced.PLATE_CHANNEL_METHODS``.
+    loss_model : str
+        Entrance/exit loss model of the plate-fin channels, one of ``forced.LOSS_MODELS``.
+    heat_transfer_factor : float or array
+        Multiplier on the air-side heat transfer coefficient [-]: a calibration to test data,
+        a correlation tolerance, or a fouling allowance. 1 = the correlation as published.
+    fouling_resistance : float or array
+        Air-side fouling (dust layer) resistance per unit area, in series with 1/h
+        [m² K W⁻¹].
+    pressure_drop_factor : float or array
+        Multiplier on the sink's own pressure drop (fouled or dusty fins) [-].
+    fan_pressure_factor : float or array
+        Multiplier on the fan curve's pressure (ageing, voltage, tolerance) [-].
+    extra_pressure_drop : callable or None
+        A loss in series with the sink and its bypass, ``dp(volume_flow) -> Pa`` (filter, grille,
+        enclosure), used with a fan.
+    """
+
+    plate_channel_method: str = "teertstra"
+    loss_model: str = "kays_london"
+    heat_transfer_factor: float | np.ndarray = 1.0
+    fouling_resistance: float | np.ndarray = 0.0
+    pressure_drop_factor: float | np.ndarray = 1.0
+    fan_pressure_factor: float | np.ndarray = 1.0
+    extra_pressure_drop: Callable | None = None
+
+    def effective_heat_transfer_coefficient(self, heat_transfer_coefficient):
+        """h after the calibration factor and the fouling layer [W m⁻² K⁻¹]."""
+        h = np.asarray(heat_transfer_coefficient, float) * self.heat_transfer_factor
+        return h / (1.0 + h * np.asarray(self.fouling_resistance, float))
+
+
+DEFAULT_OPTIONS = ModelOptions()
+
+
 # --------------------------------------------------------------------------------------
 # Results
 # --------------------------------------------------------------------------------------
@@ -305,7 +350,15 @@ def _duct_area(geometry, bypass: Bypass | None) -> np.ndarray:
     )
 
 
-def sink_pressure_drop(geometry, volume_flow, density, dynamic_viscosity, *, is_shrouded=True):
+def sink_pressure_drop(
+    geometry,
+    volume_flow,
+    density,
+    dynamic_viscosity,
+    *,
+    is_shrouded=True,
+    options: ModelOptions = DEFAULT_OPTIONS,
+):
     """Static pressure drop across the finned region at a volume flow through it [Pa].
 
     Plate fins: developing-flow apparent friction plus contraction and expansion losses;
@@ -324,10 +377,11 @@ def sink_pressure_drop(geometry, volume_flow, density, dynamic_viscosity, *, is_
             1.0,
             1.0,
             is_shrouded=is_shrouded,
+            loss_model=options.loss_model,
         )
     else:
         flow = _pin_flow(geometry, volume_flow, density, dynamic_viscosity, 1.0, 1.0)
-    return flow.pressure_drop
+    return flow.pressure_drop * options.pressure_drop_factor
 
 
 def _pin_flow(geometry: PinFinSink, volume_flow, density, viscosity, conductivity, prandtl):
@@ -348,13 +402,20 @@ def _pin_flow(geometry: PinFinSink, volume_flow, density, viscosity, conductivit
     )
 
 
-def solve_airflow(geometry, flow: Flow, air: Air, bypass: Bypass | None = None) -> _Airflow:
+def solve_airflow(
+    geometry,
+    flow: Flow,
+    air: Air,
+    bypass: Bypass | None = None,
+    options: ModelOptions = DEFAULT_OPTIONS,
+) -> _Airflow:
     """Volume flow through the fins and round them, and the pressure drop, for a forced case.
 
     The approach velocity of :class:`GivenVelocity` is taken over the duct section (finned
     region plus bypass gaps). With a bypass, the flow splits so that the fins and the gaps see
     the same pressure difference (methods.md h). With a fan, the fan curve, scaled to the inlet
-    density, is crossed with that combined system curve.
+    density and by ``options.fan_pressure_factor``, is crossed with that combined system curve
+    plus any extra series loss.
     """
     inlet = air_properties(air.inlet_temperature, air.pressure)
     rho, mu = inlet.density, inlet.dynamic_viscosity
@@ -362,7 +423,7 @@ def solve_airflow(geometry, flow: Flow, air: Air, bypass: Bypass | None = None) 
     gaps = _bypass_geometry(geometry, bypass)
 
     def dp_sink(q):
-        return sink_pressure_drop(geometry, q, rho, mu, is_shrouded=shrouded)
+        return sink_pressure_drop(geometry, q, rho, mu, is_shrouded=shrouded, options=options)
 
     if gaps is not None:
         gap_area, gap_diameter = gaps
@@ -380,7 +441,14 @@ def solve_airflow(geometry, flow: Flow, air: Air, bypass: Bypass | None = None) 
         system = dp_sink
 
     if isinstance(flow, FanDriven):
-        point = operating_point(flow.fan, system, density=rho)
+        extra, factor = options.extra_pressure_drop, options.fan_pressure_factor
+
+        def fan_system(q):
+            # fan * factor = system  <=>  fan = system / factor
+            dp = system(q) + (extra(q) if extra is not None else 0.0)
+            return dp / factor
+
+        point = operating_point(flow.fan, fan_system, density=rho)
         if not np.all(point.is_converged):
             raise SolverError(
                 "air.flow.fan: the fan curve does not cross the system curve for "
@@ -441,7 +509,9 @@ def _pin_efficiency(h, k, diameter, length):
     return np.where(mL > 1e-8, np.tanh(mL) / np.where(mL > 1e-8, mL, 1.0), 1.0), mL
 
 
-def _forced_convection(geometry, material, film, airflow: _Airflow, inlet_density, is_shrouded):
+def _forced_convection(
+    geometry, material, film, airflow: _Airflow, inlet_density, is_shrouded, options: ModelOptions
+):
     """Sink resistance (mean base to inlet air) for forced flow at given film properties."""
     k_s = material.thermal_conductivity
     warnings: list[str] = []
@@ -458,8 +528,10 @@ def _forced_convection(geometry, material, film, airflow: _Airflow, inlet_densit
             film.thermal_conductivity,
             film.prandtl,
             is_shrouded=is_shrouded,
+            method=options.plate_channel_method,
+            loss_model=options.loss_model,
         )
-        h = flow.heat_transfer_coefficient
+        h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
         t, H, L, N = (
             geometry.fin_thickness,
             geometry.fin_height,
@@ -487,14 +559,15 @@ def _forced_convection(geometry, material, film, airflow: _Airflow, inlet_densit
             film.thermal_conductivity,
             film.prandtl,
         )
-        h = flow.heat_transfer_coefficient
+        h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
         D, H = geometry.pin_diameter, geometry.pin_height
         length = np.where(is_shrouded, H, H + D / 4.0)
         eta_f, mL = _pin_efficiency(h, k_s, D, length)
         fin_area = geometry.pin_count * np.pi * D * length
         base_area = geometry.base_exposed_area
         conductance_fins = eta_f * h * fin_area
-        conductance = conductance_fins + flow.base_heat_transfer_coefficient * base_area
+        h_base = options.effective_heat_transfer_coefficient(flow.base_heat_transfer_coefficient)
+        conductance = conductance_fins + h_base * base_area
         inlet_referenced = np.asarray(flow.is_inlet_referenced, bool)
         channel_velocity = flow.max_velocity
         reynolds = flow.reynolds_max
@@ -664,16 +737,20 @@ def _assemble(
     )
 
 
-def _solve_forced(geometry, material, source, air, flow, bypass, *, power=None, limit=None):
+def _solve_forced(
+    geometry, material, source, air, flow, bypass, options, *, power=None, limit=None
+):
     """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``."""
-    airflow = solve_airflow(geometry, flow, air, bypass)
+    airflow = solve_airflow(geometry, flow, air, bypass, options)
     inlet = air_properties(air.inlet_temperature, air.pressure)
     is_shrouded = bypass is None or np.all(np.asarray(bypass.top_gap) <= 0)
     t_in = np.asarray(air.inlet_temperature, float)
     base_excess = np.zeros_like(t_in)
     for _ in range(FILM_ITERATIONS):
         film = air_properties(t_in + 0.5 * base_excess, air.pressure)
-        conv = _forced_convection(geometry, material, film, airflow, inlet.density, is_shrouded)
+        conv = _forced_convection(
+            geometry, material, film, airflow, inlet.density, is_shrouded, options
+        )
         r_sp, r_base = _chain(geometry, material, source, conv.sink_resistance)
         if limit is None:
             q = np.asarray(power, float)
@@ -725,7 +802,9 @@ class _NaturalState:
     elenbaas: np.ndarray
 
 
-def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) -> _NaturalState:
+def _natural_heat_rate(
+    geometry: PlateFinSink, material, air: Air, base_excess, options: ModelOptions
+) -> _NaturalState:
     """Heat leaving a vertical plate-fin sink at a given base excess temperature [W].
 
     Convection: Bar-Cohen & Rohsenow channel coefficient on the channel faces and the base
@@ -752,7 +831,7 @@ def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) 
         film.thermal_conductivity,
         film.prandtl,
     )
-    h = nat.heat_transfer_coefficient
+    h = options.effective_heat_transfer_coefficient(nat.heat_transfer_coefficient)
     t, H, L, N = (
         geometry.fin_thickness,
         geometry.fin_height,
@@ -765,7 +844,7 @@ def _natural_heat_rate(geometry: PlateFinSink, material, air: Air, base_excess) 
     inner_fin_area = 2.0 * (N - 1) * H * L + N * t * L
     outer_fin_area = 2.0 * H * L
     base_area = geometry.base_exposed_area
-    h_out = nat.outer_face_heat_transfer_coefficient
+    h_out = options.effective_heat_transfer_coefficient(nat.outer_face_heat_transfer_coefficient)
     eta_out, _ = _straight_fin_efficiency(h_out, material.thermal_conductivity, t, length)
     conductance = eta_f * h * inner_fin_area + eta_out * h_out * outer_fin_area + h * base_area
     # Surface efficiency: heat from the real surface over that from the same surface at the
@@ -817,7 +896,7 @@ def _find_base_excess(residual, shape, inlet_temperature, upper=400.0):
     return res.x
 
 
-def _solve_natural(geometry, material, source, air, flow, *, power=None, limit=None):
+def _solve_natural(geometry, material, source, air, flow, options, *, power=None, limit=None):
     natural.natural_orientation_check(flow.orientation)
     if not isinstance(geometry, PlateFinSink):
         raise InputError(
@@ -847,23 +926,27 @@ def _solve_natural(geometry, material, source, air, flow, *, power=None, limit=N
         np.shape(material.thermal_conductivity),
         np.shape(source.interface_resistance),
         np.shape(source.junction_to_case_resistance),
+        np.shape(options.heat_transfer_factor),
+        np.shape(options.fouling_resistance),
+        np.shape(material.emissivity),
+        np.shape(air.pressure),
     )
     if limit is None:
         target = np.broadcast_to(np.asarray(power, float), shape)
 
         def residual(theta):
-            return _natural_heat_rate(geometry, material, air, theta).power - target
+            return _natural_heat_rate(geometry, material, air, theta, options).power - target
 
     else:
         node, t_limit = limit
 
         def residual(theta):
-            state = _natural_heat_rate(geometry, material, air, theta)
+            state = _natural_heat_rate(geometry, material, air, theta, options)
             r_sink = theta / state.power
             return t_in + theta + state.power * rest(r_sink, node) - t_limit
 
     theta = _find_base_excess(residual, shape, t_in)
-    state = _natural_heat_rate(geometry, material, air, theta)
+    state = _natural_heat_rate(geometry, material, air, theta, options)
     q = state.power
     r_sink = theta / q
     spread = spreading_resistance_song_lee_au(
@@ -913,6 +996,7 @@ def solve_temperatures(
     air: Air,
     flow: Flow,
     bypass: Bypass | None = None,
+    options: ModelOptions = DEFAULT_OPTIONS,
 ) -> SinkSolution:
     """At this power, how hot does each node get?
 
@@ -930,6 +1014,8 @@ def solve_temperatures(
         How the air moves.
     bypass : Bypass, optional
         Duct clearance round the sink (forced convection only); None = fully shrouded.
+    options : ModelOptions, optional
+        Model choices, calibration and fouling allowances.
 
     Returns
     -------
@@ -937,8 +1023,8 @@ def solve_temperatures(
         Node temperatures [K], resistances [K W⁻¹], flows, efficiencies and warnings.
     """
     if isinstance(flow, NaturalConvection):
-        return _solve_natural(geometry, material, source, air, flow, power=source.power)[0]
-    return _solve_forced(geometry, material, source, air, flow, bypass, power=source.power)
+        return _solve_natural(geometry, material, source, air, flow, options, power=source.power)[0]
+    return _solve_forced(geometry, material, source, air, flow, bypass, options, power=source.power)
 
 
 def solve_allowable_power(
@@ -950,6 +1036,7 @@ def solve_allowable_power(
     limit_node: Literal["junction", "case", "base"],
     limit_temperature,
     bypass: Bypass | None = None,
+    options: ModelOptions = DEFAULT_OPTIONS,
 ) -> SinkSolution:
     """At this temperature limit on a node, how much power can the sink carry?
 
@@ -967,5 +1054,5 @@ def solve_allowable_power(
                 "limit.temperature: must be above the inlet air temperature for natural "
                 "convection (no heat can leave otherwise)"
             )
-        return _solve_natural(geometry, material, source, air, flow, limit=limit)[0]
-    return _solve_forced(geometry, material, source, air, flow, bypass, limit=limit)
+        return _solve_natural(geometry, material, source, air, flow, options, limit=limit)[0]
+    return _solve_forced(geometry, material, source, air, flow, bypass, options, limit=limit)

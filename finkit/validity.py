@@ -20,7 +20,8 @@ class ValidityRange:
     Attributes
     ----------
     method : str
-        Short name of the method as shown in a note, e.g. ``"Teertstra et al. (1999) plate channel"``.
+        Short name of the method as shown in a note,
+        e.g. ``"Teertstra et al. (1999) plate channel"``.
     quantity : str
         Symbol of the checked quantity as printed, e.g. ``"Re_b*"``.
     low, high : float
