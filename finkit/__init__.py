@@ -1,5 +1,19 @@
-"""finkit: finned surfaces and heat sinks for air cooling, from physics to a signed note."""
+"""finkit: finned surfaces and heat sinks for air cooling, from physics to a signed note.
 
+The top level re-exports the four entry points of the case workflow, imported lazily so that
+``import finkit`` stays cheap:
+
+- :func:`load_case` (``finkit.case``): YAML file, string or dict -> validated case in SI;
+- :func:`run_case` (``finkit.model``): case -> :class:`~finkit.model.CaseResult`;
+- :func:`render_note` (``finkit.notes``): case -> executed, dated HTML calculation note;
+- :func:`run_batch` (``finkit.batch``): base case + variant table -> notes and an overview.
+
+The physics lives in the subpackages: ``finkit.fins``, ``finkit.properties``,
+``finkit.correlations``, ``finkit.geometry``, ``finkit.airflow``, ``finkit.radiation``,
+``finkit.spreading`` and ``finkit.sink``.
+"""
+
+from importlib import import_module
 from importlib.metadata import PackageNotFoundError, version
 
 try:
@@ -7,4 +21,17 @@ try:
 except PackageNotFoundError:  # running from a source tree that is not installed
     __version__ = "0+unknown"
 
-__all__ = ["__version__"]
+_LAZY = {
+    "load_case": "finkit.case",
+    "run_case": "finkit.model",
+    "render_note": "finkit.notes",
+    "run_batch": "finkit.batch",
+}
+
+__all__ = ["__version__", *_LAZY]
+
+
+def __getattr__(name):
+    if name in _LAZY:
+        return getattr(import_module(_LAZY[name]), name)
+    raise AttributeError(f"module 'finkit' has no attribute {name!r}")
