@@ -47,11 +47,15 @@ from finkit.airflow import (
 )
 from finkit.correlations import forced, natural
 from finkit.errors import InputError, SolverError
+from finkit.fins import analytic as fins
 from finkit.fins.analytic import one_dimensional_fin_warnings
 from finkit.geometry import PinFinSink, PlateFinSink
 from finkit.properties.air import air_properties
 from finkit.radiation import plate_fin_radiation
 from finkit.spreading import spreading_resistance_song_lee_au
+
+NATURAL_CHANNEL_METHODS = ("bar_cohen_rohsenow", "elenbaas")
+"""Natural-convection channel correlations of vertical plate fins (``ModelOptions``)."""
 
 NODES = ("junction", "case", "base")
 """Nodes a temperature limit may be placed on. ``base`` is the base surface under the source
@@ -200,6 +204,23 @@ class ModelOptions:
     extra_pressure_drop : callable or None
         A loss in series with the sink and its bypass, ``dp(volume_flow) -> Pa`` (filter, grille,
         enclosure), used with a fan.
+    natural_channel_method : str
+        Natural-convection channel coefficient of vertical plate fins, one of
+        :data:`NATURAL_CHANNEL_METHODS`: ``"bar_cohen_rohsenow"`` (composite correlation,
+        default) or ``"elenbaas"`` (Elenbaas's own fit). Both take the same Elenbaas number.
+    deposit_thickness : float or array
+        Thickness of a dust or deposit layer on every wetted face [m]. It narrows the flow
+        passages: the flow and heat-transfer correlations see fins ``2 deposit_thickness``
+        thicker (pins ``2 deposit_thickness`` larger in diameter), while fin conduction, fin
+        count and areas stay those of the clean metal. Its thermal resistance is not included
+        here; give it as ``fouling_resistance`` (layer thickness over its conductivity).
+    sink_resistance_factor : float or array
+        Multiplier on the sink resistance (fins and exposed base to the air, convection plus
+        radiation) [-]; an empirical calibration to test data. 1 = as modelled.
+    heat_transfer_coefficient_override : float or array or None
+        A heat transfer coefficient given by hand, used on every air-side surface instead of
+        the correlations [W m⁻² K⁻¹]; ``heat_transfer_factor`` and ``fouling_resistance`` still
+        apply. None (default) = computed from the correlations.
     """
 
     plate_channel_method: str = "teertstra"
@@ -209,14 +230,35 @@ class ModelOptions:
     pressure_drop_factor: float | np.ndarray = 1.0
     fan_pressure_factor: float | np.ndarray = 1.0
     extra_pressure_drop: Callable | None = None
+    natural_channel_method: str = "bar_cohen_rohsenow"
+    deposit_thickness: float | np.ndarray = 0.0
+    sink_resistance_factor: float | np.ndarray = 1.0
+    heat_transfer_coefficient_override: float | np.ndarray | None = None
+
+    def __post_init__(self):
+        if self.natural_channel_method not in NATURAL_CHANNEL_METHODS:
+            raise InputError(
+                f"natural_channel_method: got {self.natural_channel_method!r}; allowed: "
+                f"{', '.join(NATURAL_CHANNEL_METHODS)}"
+            )
+        if np.any(np.asarray(self.deposit_thickness, float) < 0):
+            raise InputError(f"deposit_thickness: got {self.deposit_thickness!r} m; must be >= 0")
 
     def effective_heat_transfer_coefficient(self, heat_transfer_coefficient):
-        """h after the calibration factor and the fouling layer [W m⁻² K⁻¹]."""
-        h = np.asarray(heat_transfer_coefficient, float) * self.heat_transfer_factor
+        """h after any hand override, the calibration factor and the fouling layer [W m⁻² K⁻¹]."""
+        h = np.asarray(heat_transfer_coefficient, float)
+        if self.heat_transfer_coefficient_override is not None:
+            h = np.asarray(self.heat_transfer_coefficient_override, float) + 0.0 * h
+        h = h * self.heat_transfer_factor
         return h / (1.0 + h * np.asarray(self.fouling_resistance, float))
 
 
 DEFAULT_OPTIONS = ModelOptions()
+
+
+def _passage_thickness(thickness, options: ModelOptions):
+    """Fin thickness (or pin diameter) the air passages see, with any deposit layer [m]."""
+    return np.asarray(thickness, float) + 2.0 * np.asarray(options.deposit_thickness, float)
 
 
 # --------------------------------------------------------------------------------------
@@ -369,7 +411,7 @@ def sink_pressure_drop(
             volume_flow,
             geometry.base_width,
             geometry.fin_count,
-            geometry.fin_thickness,
+            _passage_thickness(geometry.fin_thickness, options),
             geometry.fin_height,
             geometry.base_length,
             density,
@@ -380,15 +422,23 @@ def sink_pressure_drop(
             loss_model=options.loss_model,
         )
     else:
-        flow = _pin_flow(geometry, volume_flow, density, dynamic_viscosity, 1.0, 1.0)
+        flow = _pin_flow(geometry, volume_flow, density, dynamic_viscosity, 1.0, 1.0, options)
     return flow.pressure_drop * options.pressure_drop_factor
 
 
-def _pin_flow(geometry: PinFinSink, volume_flow, density, viscosity, conductivity, prandtl):
+def _pin_flow(
+    geometry: PinFinSink,
+    volume_flow,
+    density,
+    viscosity,
+    conductivity,
+    prandtl,
+    options: ModelOptions = DEFAULT_OPTIONS,
+):
     return forced.pin_fin_bank_flow(
         volume_flow,
         geometry.base_width,
-        geometry.pin_diameter,
+        _passage_thickness(geometry.pin_diameter, options),
         geometry.pin_height,
         geometry.transverse_pitch,
         geometry.longitudinal_pitch,
@@ -497,16 +547,12 @@ class _Convection:
     warnings: tuple[str, ...]
 
 
-def _straight_fin_efficiency(h, k, thickness, length):
-    """Adiabatic-tip efficiency tanh(mL)/(mL) of a thin straight fin, m = sqrt(2h/(k t))."""
-    mL = np.sqrt(2.0 * h / (k * thickness)) * length
-    return np.where(mL > 1e-8, np.tanh(mL) / np.where(mL > 1e-8, mL, 1.0), 1.0), mL
-
-
-def _pin_efficiency(h, k, diameter, length):
-    """Adiabatic-tip efficiency tanh(mL)/(mL) of a pin, m = sqrt(4h/(k D))."""
-    mL = np.sqrt(4.0 * h / (k * diameter)) * length
-    return np.where(mL > 1e-8, np.tanh(mL) / np.where(mL > 1e-8, mL, 1.0), 1.0), mL
+def _adiabatic_fin(h, k, section, length):
+    """Efficiency [-] and m·L [-] of a fin with adiabatic tip at ``length`` (Table 3.4 case B)."""
+    fin = fins.uniform_fin(
+        length, section.perimeter, section.cross_section_area, k, h, tip="adiabatic"
+    )
+    return fin.efficiency, fin.fin_parameter * length
 
 
 def _forced_convection(
@@ -520,7 +566,7 @@ def _forced_convection(
             airflow.sink_volume_flow,
             geometry.base_width,
             geometry.fin_count,
-            geometry.fin_thickness,
+            _passage_thickness(geometry.fin_thickness, options),
             geometry.fin_height,
             geometry.base_length,
             film.density,
@@ -540,7 +586,8 @@ def _forced_convection(
         )
         # Corrected length only when the tip sees the flow (methods.md, pitfall 5).
         length = np.where(is_shrouded, H, H + t / 2.0)
-        eta_f, mL = _straight_fin_efficiency(h, k_s, t, length)
+        plate = fins.rectangular_fin_section(t, L, include_edges=False)
+        eta_f, mL = _adiabatic_fin(h, k_s, plate, length)
         fin_area = N * 2.0 * length * L
         base_area = geometry.base_exposed_area
         conductance_fins = eta_f * h * fin_area
@@ -558,11 +605,12 @@ def _forced_convection(
             film.dynamic_viscosity,
             film.thermal_conductivity,
             film.prandtl,
+            options,
         )
         h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
         D, H = geometry.pin_diameter, geometry.pin_height
         length = np.where(is_shrouded, H, H + D / 4.0)
-        eta_f, mL = _pin_efficiency(h, k_s, D, length)
+        eta_f, mL = _adiabatic_fin(h, k_s, fins.pin_fin_section(D), length)
         fin_area = geometry.pin_count * np.pi * D * length
         base_area = geometry.base_exposed_area
         conductance_fins = eta_f * h * fin_area
@@ -584,7 +632,7 @@ def _forced_convection(
     effectiveness = -np.expm1(-ntu)
     r_sink = np.where(inlet_referenced, 1.0 / conductance, 1.0 / (effectiveness * capacity))
     # An inlet-referenced model can never beat the fully heated limit m cp (guard of e2).
-    r_sink = np.maximum(r_sink, 1.0 / capacity)
+    r_sink = np.maximum(r_sink, 1.0 / capacity) * options.sink_resistance_factor
     tip_ratio = 1.0 / np.cosh(mL)
     return _Convection(
         sink_resistance=r_sink,
@@ -817,8 +865,10 @@ def _natural_heat_rate(
     base_excess = np.asarray(base_excess, float)
     surface = t_in + base_excess
     film = air_properties(t_in + 0.5 * base_excess, air.pressure)
+    passage = _passage_thickness(geometry.fin_thickness, options)
+    spacing = geometry.fin_spacing - (passage - geometry.fin_thickness)
     nat = natural.plate_fin_array_natural(
-        geometry.fin_spacing,
+        spacing,
         geometry.fin_height,
         geometry.base_length,
         geometry.fin_thickness,
@@ -831,7 +881,14 @@ def _natural_heat_rate(
         film.thermal_conductivity,
         film.prandtl,
     )
-    h = options.effective_heat_transfer_coefficient(nat.heat_transfer_coefficient)
+    channel_h = nat.heat_transfer_coefficient
+    if options.natural_channel_method == "elenbaas":
+        channel_h = (
+            natural.nusselt_vertical_channel_elenbaas(nat.elenbaas)
+            * film.thermal_conductivity
+            / spacing
+        )
+    h = options.effective_heat_transfer_coefficient(channel_h)
     t, H, L, N = (
         geometry.fin_thickness,
         geometry.fin_height,
@@ -839,13 +896,14 @@ def _natural_heat_rate(
         geometry.fin_count,
     )
     length = H + t / 2.0
-    eta_f, mL = _straight_fin_efficiency(h, material.thermal_conductivity, t, length)
+    plate = fins.rectangular_fin_section(t, L, include_edges=False)
+    eta_f, mL = _adiabatic_fin(h, material.thermal_conductivity, plate, length)
     # Channel faces: 2(N-1) faces; the two outer faces of the end fins get the isolated-plate h.
     inner_fin_area = 2.0 * (N - 1) * H * L + N * t * L
     outer_fin_area = 2.0 * H * L
     base_area = geometry.base_exposed_area
     h_out = options.effective_heat_transfer_coefficient(nat.outer_face_heat_transfer_coefficient)
-    eta_out, _ = _straight_fin_efficiency(h_out, material.thermal_conductivity, t, length)
+    eta_out, _ = _adiabatic_fin(h_out, material.thermal_conductivity, plate, length)
     conductance = eta_f * h * inner_fin_area + eta_out * h_out * outer_fin_area + h * base_area
     # Surface efficiency: heat from the real surface over that from the same surface at the
     # base temperature, each face with its own coefficient.
@@ -866,9 +924,11 @@ def _natural_heat_rate(
         t_sur,
     )
     return _NaturalState(
-        power=q_conv + rad.heat_rate,
-        convection_heat_rate=q_conv,
-        radiation_heat_rate=np.asarray(rad.heat_rate, float),
+        # A sink-resistance calibration divides the whole surface conductance (convection and
+        # radiation) by its factor, so R_sink = theta / power scales by exactly that factor.
+        power=(q_conv + rad.heat_rate) / options.sink_resistance_factor,
+        convection_heat_rate=q_conv / options.sink_resistance_factor,
+        radiation_heat_rate=np.asarray(rad.heat_rate, float) / options.sink_resistance_factor,
         h=np.asarray(h, float),
         eta_f=np.asarray(eta_f, float),
         eta_o=np.asarray(eta_o, float),
@@ -928,6 +988,13 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
         np.shape(source.junction_to_case_resistance),
         np.shape(options.heat_transfer_factor),
         np.shape(options.fouling_resistance),
+        np.shape(options.deposit_thickness),
+        np.shape(options.sink_resistance_factor),
+        np.shape(
+            0.0
+            if options.heat_transfer_coefficient_override is None
+            else options.heat_transfer_coefficient_override
+        ),
         np.shape(material.emissivity),
         np.shape(air.pressure),
     )
