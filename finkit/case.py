@@ -44,6 +44,16 @@ from pydantic_core import PydanticCustomError
 
 from finkit.errors import InputError
 from finkit.properties.atmosphere import ALTITUDE_RANGE  # the standard atmosphere's range [m]
+from finkit.review_schema import (
+    CalibrationBlock,
+    HeatTransferCoefficientOverride,
+    JunctionToCaseBasis,
+    MeasurementBlock,
+    PreheatAllowance,
+    ReviewBlocks,
+    ScenarioBlock,
+    TouchBlock,
+)
 from finkit.units import format_quantity, to_si
 
 __all__ = [
@@ -358,6 +368,7 @@ class Source(_Model):
     footprint_length: Length
     footprint_width: Length
     junction_to_case: ThermalResistance = 0.0
+    junction_to_case_basis: JunctionToCaseBasis | None = None
     interface: Interface
 
 
@@ -412,6 +423,7 @@ class Sink(_Model):
     base: Base
     fins: Fins | None = None
     pins: Pins | None = None
+    heat_transfer_coefficient_override: HeatTransferCoefficientOverride | None = None
 
     @model_validator(mode="after")
     def _geometry(self):
@@ -532,6 +544,7 @@ class Air(_Model):
     inlet_temperature: Temperature
     altitude: Altitude = 0.0
     surroundings_temperature: Temperature | None = None
+    preheat_allowance: PreheatAllowance | None = None
     flow: Flow
     bypass: Bypass | None = None
 
@@ -601,6 +614,41 @@ class HeatSinkCase(Case):
     air: Air
     limit: Limit
     sweeps: list[Literal[SWEEP_NAMES]] = []  # type: ignore[valid-type]
+    scenarios: list[ScenarioBlock] = []
+    touch: TouchBlock | None = None
+    measurements: list[MeasurementBlock] = []
+    calibration: CalibrationBlock | None = None
+
+    @model_validator(mode="after")
+    def _review_blocks(self):
+        # Unique scenario and measurement names, calibration needs measurements: the checks
+        # live with the blocks (finkit.review_schema.ReviewBlocks).
+        ReviewBlocks.model_validate(
+            {
+                "scenarios": self.scenarios,
+                "touch": self.touch,
+                "measurements": self.measurements,
+                "calibration": self.calibration,
+            }
+        )
+        fan = self.air.flow.fan
+        for scenario in self.scenarios:
+            needs_fan = [
+                name
+                for name in ("failed_fans", "fan_speed_ratio", "fan_pressure_factor")
+                if getattr(scenario, name) is not None
+            ]
+            if needs_fan and fan is None:
+                raise _fail(
+                    f"scenario {scenario.name!r}: {', '.join(needs_fan)} need a fan (air.flow.fan)"
+                )
+            if scenario.failed_fans is not None and fan is not None:
+                if scenario.failed_fans >= fan.count:
+                    raise _fail(
+                        f"scenario {scenario.name!r}: failed_fans must be below the fan count "
+                        f"{fan.count} (got {scenario.failed_fans})"
+                    )
+        return self
 
     @field_validator("sweeps")
     @classmethod

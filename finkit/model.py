@@ -107,6 +107,8 @@ class CaseResult:
         The heat-sink state at the allowable power (limit less the required margin).
     inputs : SinkInputs or None
         The physics inputs used.
+    review : ReviewResult or None
+        Scenarios, touch check, calibration, correlation spread and input flags.
     """
 
     case: Any
@@ -116,6 +118,7 @@ class CaseResult:
     solution: SinkSolution | None = None
     allowable: SinkSolution | None = None
     inputs: SinkInputs | None = None
+    review: ReviewResult | None = None
     created: str = field(
         default_factory=lambda: _dt.datetime.now(_dt.UTC).astimezone().isoformat(timespec="seconds")
     )
@@ -124,7 +127,9 @@ class CaseResult:
         """The content of ``results.json`` (see the calculation-notes issue)."""
         from finkit.case import case_inputs_sha256
 
+        extra = {} if self.review is None else {"review": self.review.to_json_dict()}
         return {
+            **extra,
             "case": self.case.case_id,
             "status": self.status,
             "created": self.created,
@@ -139,6 +144,72 @@ class CaseResult:
                 for name, value in self.results.items()
             },
         }
+
+
+@dataclass(frozen=True)
+class ReviewResult:
+    """What a reviewer asks beyond the nominal result (see :mod:`finkit.review`).
+
+    Attributes
+    ----------
+    scenarios : finkit.review.ScenarioTable or None
+        Nominal plus every named scenario, the governing (least-margin) one marked.
+    touch : finkit.review.TouchResult or None
+        Hottest accessible surface at the user's reference ambient against the user's limit.
+    calibration : finkit.review.Calibration or None
+        Empirical multiplier fitted to the case's measurements (applied if the case says so).
+    spread : finkit.review.CorrelationSpread or None
+        The headline results with each accepted alternative correlation.
+    flags : tuple of str
+        Input sanity flags (also among the result's warnings).
+    """
+
+    scenarios: Any = None
+    touch: Any = None
+    calibration: Any = None
+    spread: Any = None
+    flags: tuple[str, ...] = ()
+
+    def to_json_dict(self) -> dict:
+        """Summary for ``results.json`` (temperatures in °C, differences in K)."""
+        out: dict[str, Any] = {"flags": list(self.flags)}
+        if self.scenarios is not None:
+            out["governing_scenario"] = self.scenarios.governing
+            out["scenarios"] = [
+                {
+                    "name": r.name,
+                    "limit_node_temperature": r.node_temperature - ZERO_CELSIUS,
+                    "temperature_margin": r.margin,
+                    "allowable_power": r.allowable_power,
+                    "status": r.status,
+                    "is_governing": r.is_governing,
+                }
+                for r in self.scenarios.rows
+            ]
+        if self.touch is not None:
+            out["touch"] = {
+                "hottest_surface": self.touch.hottest_surface,
+                "hottest_temperature": self.touch.hottest_temperature - ZERO_CELSIUS,
+                "limit_temperature": self.touch.limit_temperature - ZERO_CELSIUS,
+                "status": self.touch.status,
+            }
+        if self.calibration is not None:
+            out["calibration"] = {
+                "target": self.calibration.target,
+                "multiplier": self.calibration.multiplier,
+                "standard_error": self.calibration.standard_error,
+                "is_applied": self.calibration.is_applied,
+            }
+        if self.spread is not None:
+            out["correlation_spread"] = [
+                {
+                    "model": r.label,
+                    "junction_temperature": r.junction_temperature - ZERO_CELSIUS,
+                    "allowable_power": r.allowable_power,
+                }
+                for r in self.spread.rows
+            ]
+        return out
 
 
 # --------------------------------------------------------------------------------------
@@ -211,6 +282,9 @@ def sink_inputs(case) -> SinkInputs:
         limit_node=case.limit.node,
         limit_temperature=case.limit.temperature,
         required_margin=case.limit.required_margin,
+        options=ModelOptions(
+            heat_transfer_coefficient_override=s.heat_transfer_coefficient_override
+        ),
     )
 
 
@@ -275,6 +349,7 @@ def run_case(case) -> CaseResult:
     if getattr(case, "kind", "heat-sink") == "single-fin":
         return _run_single_fin(case)
     inputs = sink_inputs(case)
+    inputs, calibration = _calibrated(case, inputs)
     sol = solve(inputs)
     t_in = float(np.asarray(inputs.air.inlet_temperature))
     usable_limit = inputs.limit_temperature - inputs.required_margin
@@ -287,6 +362,9 @@ def run_case(case) -> CaseResult:
     node_t = float(sol.node_temperature(inputs.limit_node))
     margin = inputs.limit_temperature - node_t
     status = "pass" if margin >= inputs.required_margin else "fail"
+    review = _review(case, inputs, calibration)
+    if review.scenarios is not None:
+        status = review.scenarios.status
     is_natural = isinstance(inputs.flow, NaturalConvection)
     total_q = float(sol.convection_heat_rate + sol.radiation_heat_rate)
     results = {
@@ -320,6 +398,7 @@ def run_case(case) -> CaseResult:
     warnings = list(sol.warnings)
     if at_margin is not None:
         warnings += [w for w in at_margin.warnings if w not in warnings]
+    warnings += [w for w in review.flags if w not in warnings]
     return CaseResult(
         case=case,
         status=status,
@@ -328,6 +407,57 @@ def run_case(case) -> CaseResult:
         solution=sol,
         allowable=at_margin,
         inputs=inputs,
+        review=review,
+    )
+
+
+def _calibrated(case, inputs: SinkInputs):
+    """Fit the case's measurements (if any); apply the multiplier if the case asks to."""
+    if not case.measurements:
+        return inputs, None
+    from finkit.review import apply_calibration, calibrate, measurements_from_blocks
+
+    target = case.calibration.target if case.calibration is not None else "heat_transfer"
+    fit = calibrate(inputs, measurements_from_blocks(case.measurements), target)
+    if case.calibration is not None and case.calibration.apply:
+        return apply_calibration(inputs, fit), replace(fit, is_applied=True)
+    return inputs, fit
+
+
+def _review(case, inputs: SinkInputs, calibration) -> ReviewResult:
+    """Scenarios, touch check, correlation spread and sanity flags of a heat-sink case."""
+    from finkit.review import (
+        correlation_spread,
+        run_scenarios,
+        sanity_flags,
+        scenarios_from_blocks,
+        touch_temperature_check,
+    )
+
+    table = None
+    if case.scenarios:
+        table = run_scenarios(inputs, scenarios_from_blocks(case.scenarios), case.air.flow.fan)
+    touch = None
+    if case.touch is not None:
+        t = case.touch
+        preheat = t.inlet_preheat
+        if preheat is None:
+            preheat = case.air.preheat_allowance or 0.0
+        touch = touch_temperature_check(
+            inputs,
+            t.limit_temperature,
+            t.reference_ambient,
+            t.basis,
+            surfaces=tuple(t.surfaces),
+            inlet_preheat=preheat,
+            power=t.power,
+        )
+    return ReviewResult(
+        scenarios=table,
+        touch=touch,
+        calibration=calibration,
+        spread=correlation_spread(inputs),
+        flags=tuple(sanity_flags(case, inputs)),
     )
 
 
@@ -404,10 +534,14 @@ def sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
     ok = t_in < usable - 1e-6
     # Where the inlet air already reaches the usable limit the allowable power is zero; solve
     # the others at an inlet clipped just below it so that one array call serves all points.
-    clipped = replace(
-        swept, air=replace(swept.air, inlet_temperature=np.minimum(t_in, usable - 1e-3))
-    )
-    power = np.where(ok, np.asarray(allowable(clipped).power, float), 0.0)
+    t_clip = np.minimum(t_in, usable - 1e-3)
+    air = replace(swept.air, inlet_temperature=t_clip)
+    if swept.air.surroundings_temperature is not None:
+        # Clipped points keep their surroundings-to-inlet offset (their result is discarded).
+        air = replace(
+            air, surroundings_temperature=swept.air.surroundings_temperature + t_clip - t_in
+        )
+    power = np.where(ok, np.asarray(allowable(replace(swept, air=air)).power, float), 0.0)
     return {
         "values": np.asarray(values, float),
         "junction_temperature": sol.junction_temperature,
@@ -419,3 +553,368 @@ def sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
         "pressure_drop": sol.pressure_drop,
         "heat_transfer_coefficient": sol.heat_transfer_coefficient,
     }
+
+
+# --- note support ---
+# Quantities the calculation notes plot that the solution does not carry itself. Physics stays
+# here (finkit.report only formats and draws); every function re-uses the model's own inputs.
+
+#: Sweeps a note can draw: :data:`SWEEPABLE` plus the heat transfer coefficient.
+NOTE_SWEEPS = (*SWEEPABLE, "heat_transfer_coefficient")
+
+
+def is_fin_tip_exposed(inputs: SinkInputs) -> bool:
+    """True where the fin tips see the air: natural convection, or a bypass gap above the tips.
+
+    Same rule as :mod:`finkit.sink`: a shroud on the tips (no top gap) makes the tip adiabatic
+    on the real length; an exposed tip uses the corrected length ``L + A_c/P``.
+    """
+    if isinstance(inputs.flow, NaturalConvection):
+        return True
+    return inputs.bypass is not None and bool(np.any(np.asarray(inputs.bypass.top_gap) > 0))
+
+
+def fin_temperature_profile(
+    inputs: SinkInputs, solution: SinkSolution, points: int = 101
+) -> dict[str, Any]:
+    """Temperature along one fin (or pin) inside the array, at the solved state.
+
+    The fin is the model's own: uniform section, adiabatic tip on the corrected length
+    ``L_c = L + A_c/P`` when the tip is exposed (``L`` when shrouded), the solved
+    (area-mean, inlet-referenced) heat transfer coefficient, the mean base temperature at its
+    root and the inlet air as the reference temperature, exactly as :mod:`finkit.sink` obtains
+    its fin efficiency and fin-tip temperature. Plate fins use the thin-fin section
+    (``P = 2 L_base``, ``A_c = t L_base``), so that ``m = sqrt(2 h / (k t))``; pins ``P = π D``,
+    ``A_c = π D²/4``.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The case's physics inputs (scalar fields). [-]
+    solution : SinkSolution
+        The solved state (scalar), e.g. ``CaseResult.solution``. [-]
+    points : int, optional
+        Number of points from the root to the real tip. [-]
+
+    Returns
+    -------
+    dict
+        ``x`` distance from the base [m] over ``0 … L`` (the real fin), ``temperature`` [K],
+        ``fin_length`` L [m], ``model_length`` (L or L_c) [m], ``heat_transfer_coefficient``
+        [W m⁻² K⁻¹], ``thermal_conductivity`` [W m⁻¹ K⁻¹], ``is_tip_exposed`` [-],
+        ``reference_temperature`` (inlet air) [K], ``base_temperature`` [K] and
+        ``tip_temperature`` (the solution's fin-tip temperature, at ``x = L_c``) [K].
+
+    References
+    ----------
+    .. [1] Incropera, F.P., DeWitt, D.P., Bergman, T.L., Lavine, A.S., "Fundamentals of Heat and
+       Mass Transfer", 6th ed., Wiley, 2007, Table 3.4 (case B, adiabatic tip) and eq. 3.89
+       (corrected length).
+    """
+    from finkit.fins import analytic as fa
+
+    g = inputs.geometry
+    if isinstance(g, PlateFinSink):
+        section = fa.rectangular_fin_section(g.fin_thickness, g.base_length, include_edges=False)
+        length = float(g.fin_height)
+    else:
+        section = fa.pin_fin_section(g.pin_diameter)
+        length = float(g.pin_height)
+    exposed = is_fin_tip_exposed(inputs)
+    model_length = (
+        float(fa.corrected_length(length, section.perimeter, section.cross_section_area))
+        if exposed
+        else length
+    )
+    h = float(np.asarray(solution.heat_transfer_coefficient))
+    k = float(np.asarray(inputs.material.thermal_conductivity))
+    t_ref = float(np.asarray(solution.inlet_air_temperature))
+    t_base = float(np.asarray(solution.base_temperature))
+    x = np.linspace(0.0, length, int(points))
+    theta = fa.uniform_fin_temperature_difference(
+        x,
+        model_length,
+        section.perimeter,
+        section.cross_section_area,
+        k,
+        h,
+        t_base - t_ref,
+        tip="adiabatic",
+    )
+    return {
+        "x": x,
+        "temperature": t_ref + np.asarray(theta, float),
+        "fin_length": length,
+        "model_length": model_length,
+        "heat_transfer_coefficient": h,
+        "thermal_conductivity": k,
+        "is_tip_exposed": exposed,
+        "reference_temperature": t_ref,
+        "base_temperature": t_base,
+        "tip_temperature": float(np.asarray(solution.fin_tip_temperature)),
+    }
+
+
+def system_curve(inputs: SinkInputs, volume_flow) -> dict[str, np.ndarray]:
+    """Pressure drop of the sink (with its bypass) over a range of total volume flows.
+
+    The same system the model crosses with the fan curve: finned region and bypass gaps in
+    parallel at the inlet air density and viscosity (:func:`finkit.sink.solve_airflow` with a
+    given volume flow), times ``options.pressure_drop_factor``.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        A forced-convection case's inputs. [-]
+    volume_flow : array_like
+        Total volume flows approaching the sink, > 0. [m³ s⁻¹]
+
+    Returns
+    -------
+    dict
+        ``volume_flow`` [m³ s⁻¹], ``pressure_drop`` [Pa], ``sink_volume_flow`` (through the
+        fins) [m³ s⁻¹].
+    """
+    from finkit.sink import solve_airflow
+
+    if isinstance(inputs.flow, NaturalConvection):
+        raise InputError("air.flow: natural convection has no system curve")
+    q = np.asarray(volume_flow, float)
+    flows = solve_airflow(
+        inputs.geometry, GivenVolumeFlow(q), inputs.air, inputs.bypass, inputs.options
+    )
+    return {
+        "volume_flow": q,
+        "pressure_drop": np.asarray(flows.pressure_drop, float),
+        "sink_volume_flow": np.asarray(flows.sink_volume_flow, float),
+    }
+
+
+def fan_pressure(inputs: SinkInputs, volume_flow) -> dict[str, np.ndarray]:
+    """Fan static pressure over a range of flows, as rated and at the inlet air density.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        A fan-driven case's inputs. [-]
+    volume_flow : array_like
+        Volume flows through the fan(s), >= 0. [m³ s⁻¹]
+
+    Returns
+    -------
+    dict
+        ``volume_flow`` [m³ s⁻¹], ``rated`` pressure at the rating density [Pa], ``at_inlet``
+        pressure at the inlet air density times ``options.fan_pressure_factor`` [Pa],
+        ``rating_density`` and ``inlet_density`` [kg m⁻³], ``free_delivery`` [m³ s⁻¹].
+    """
+    from finkit.properties.air import air_properties
+
+    if not isinstance(inputs.flow, FanDriven):
+        raise InputError("air.flow: only a fan-driven case has a fan curve")
+    fan = inputs.flow.fan
+    q = np.asarray(volume_flow, float)
+    rho = float(
+        np.asarray(air_properties(inputs.air.inlet_temperature, inputs.air.pressure).density)
+    )
+    return {
+        "volume_flow": q,
+        "rated": np.asarray(fan.pressure(q), float),
+        "at_inlet": np.asarray(fan.pressure(q, density=rho), float)
+        * np.asarray(inputs.options.fan_pressure_factor, float),
+        "rating_density": float(fan.rating_density),
+        "inlet_density": rho,
+        "free_delivery": float(fan.free_delivery),
+    }
+
+
+def _sweep_swept(inputs: SinkInputs, swept: SinkInputs, values) -> dict[str, np.ndarray]:
+    """The body of :func:`sweep` for inputs already swept (same keys, same conventions)."""
+    sol = solve(swept)
+    usable = inputs.limit_temperature - inputs.required_margin
+    shape = np.shape(sol.power)
+    t_in = np.broadcast_to(np.asarray(swept.air.inlet_temperature, float), shape)
+    ok = t_in < usable - 1e-6
+    t_clip = np.minimum(t_in, usable - 1e-3)
+    air = replace(swept.air, inlet_temperature=t_clip)
+    if swept.air.surroundings_temperature is not None:
+        # Clipped points keep their surroundings-to-inlet offset (their result is discarded).
+        air = replace(
+            air, surroundings_temperature=swept.air.surroundings_temperature + t_clip - t_in
+        )
+    power = np.where(ok, np.asarray(allowable(replace(swept, air=air)).power, float), 0.0)
+    return {
+        "values": np.asarray(values, float),
+        "junction_temperature": sol.junction_temperature,
+        "base_temperature": sol.base_temperature,
+        "limit_node_temperature": sol.node_temperature(inputs.limit_node),
+        "allowable_power": power,
+        "sink_resistance": sol.sink_resistance,
+        "fin_efficiency": sol.fin_efficiency,
+        "pressure_drop": sol.pressure_drop,
+        "heat_transfer_coefficient": sol.heat_transfer_coefficient,
+    }
+
+
+def note_sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
+    """:func:`sweep` for a note, over any name of :data:`NOTE_SWEEPS`.
+
+    Differs from :func:`sweep` for ``inlet_temperature``: the surroundings temperature
+    (radiation) moves with the inlet air, keeping the case's offset. Adds
+    ``heat_transfer_coefficient`` (every air-side surface given that h instead of the
+    correlations, through ``ModelOptions.heat_transfer_coefficient_override``: a sensitivity to
+    the correlation) and ``fin_height`` of a pin-fin sink (the pin height).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The case's physics inputs. [-]
+    name : str
+        One of :data:`NOTE_SWEEPS`. [-]
+    values : array_like
+        Values of the swept quantity in SI (K, m³ s⁻¹, -, m, m, m, W, W m⁻² K⁻¹). [SI]
+
+    Returns
+    -------
+    dict
+        As :func:`sweep`.
+    """
+    values = np.asarray(values, float)
+    if name == "inlet_temperature" and inputs.air.surroundings_temperature is not None:
+        # The surroundings the sink radiates to keep their offset from the inlet air (walls
+        # warmed by the same air); otherwise a cool inlet under hot walls, or the reverse,
+        # would describe another installation.
+        offset = np.asarray(inputs.air.surroundings_temperature, float) - np.asarray(
+            inputs.air.inlet_temperature, float
+        )
+        air = replace(
+            inputs.air, inlet_temperature=values, surroundings_temperature=values + offset
+        )
+        return _sweep_swept(inputs, replace(inputs, air=air), values)
+    if name == "heat_transfer_coefficient":
+        swept = replace(
+            inputs,
+            options=replace(inputs.options, heat_transfer_coefficient_override=values),
+        )
+        return _sweep_swept(inputs, swept, values)
+    if name == "fin_height" and isinstance(inputs.geometry, PinFinSink):
+        swept = replace(inputs, geometry=replace(inputs.geometry, pin_height=values))
+        return _sweep_swept(inputs, swept, values)
+    return sweep(inputs, name, values)
+
+
+def single_fin_profiles(case, points: int = 101) -> dict[str, Any]:
+    """Temperature along a single fin for each study material and each study h.
+
+    Uniform profiles only (rectangular, pin), with the case's tip condition: the excess
+    temperature of Incropera et al. Table 3.4 (:func:`finkit.fins.analytic.
+    uniform_fin_temperature_difference`). One curve per material at the case's h, one per h
+    with the case's material.
+
+    Parameters
+    ----------
+    case : finkit.case.SingleFinCase
+        A validated single-fin case. [-]
+    points : int, optional
+        Points from base to tip. [-]
+
+    Returns
+    -------
+    dict
+        ``x`` [m]; ``ambient_temperature`` and ``base_temperature`` [K]; ``by_material``: list
+        of ``{"material", "thermal_conductivity", "temperature"}``; ``by_coefficient``: list of
+        ``{"heat_transfer_coefficient", "temperature"}`` (temperatures [K] over ``x``). Empty
+        lists for a non-uniform profile.
+    """
+    from finkit.fins import analytic as fa
+    from finkit.single_fin import UNIFORM_PROFILES, _section
+
+    fin, cond = case.fin, case.conditions
+    t_inf = cond.ambient_temperature
+    theta_b = cond.base_temperature - t_inf
+    out: dict[str, Any] = {
+        "x": np.array([]),
+        "ambient_temperature": t_inf,
+        "base_temperature": cond.base_temperature,
+        "by_material": [],
+        "by_coefficient": [],
+    }
+    if fin.profile not in UNIFORM_PROFILES:
+        return out
+    user = case.user_materials() or None
+    section = _section(fin)
+    x = np.linspace(0.0, fin.length, int(points))
+    theta_l = fin.tip_temperature - t_inf if fin.tip_temperature is not None else 0.0
+
+    def profile(k, h):
+        theta = fa.uniform_fin_temperature_difference(
+            x,
+            fin.length,
+            section.perimeter,
+            section.cross_section_area,
+            k,
+            h,
+            theta_b,
+            tip=fin.tip,
+            tip_temperature_difference=theta_l,
+        )
+        return t_inf + np.asarray(theta, float)
+
+    study = case.study
+    keys = list(dict.fromkeys([fin.material] + (list(study.materials) if study else [])))
+    hs = list(
+        dict.fromkeys(
+            [cond.heat_transfer_coefficient]
+            + (list(study.heat_transfer_coefficients) if study else [])
+        )
+    )
+    k_case = get_material(fin.material, user).thermal_conductivity
+    for key in keys:
+        k = get_material(key, user).thermal_conductivity
+        out["by_material"].append(
+            {
+                "material": key,
+                "thermal_conductivity": k,
+                "temperature": profile(k, cond.heat_transfer_coefficient),
+            }
+        )
+    for h in sorted(hs):
+        out["by_coefficient"].append(
+            {"heat_transfer_coefficient": h, "temperature": profile(k_case, h)}
+        )
+    out["x"] = x
+    return out
+
+
+def volume_flow_for_power(inputs: SinkInputs, points: int = 240) -> float | None:
+    """Smallest total volume flow at which the allowable power reaches the stated power.
+
+    The allowable power (limit node at the limit less the required margin) is evaluated on a
+    logarithmic grid of total volume flows from 1/20 to 20 times the case's operating flow, with
+    the case's bypass, and the crossing with the stated power is interpolated linearly (grid
+    step about 2.5 %). Forced convection only.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        A forced-convection case's inputs. [-]
+    points : int, optional
+        Grid points. [-]
+
+    Returns
+    -------
+    float or None
+        Volume flow [m³ s⁻¹]; None when no flow in that range carries the stated power.
+    """
+    if isinstance(inputs.flow, NaturalConvection):
+        raise InputError("air.flow: natural convection has no volume flow to size")
+    q0 = float(np.asarray(solve(inputs).volume_flow))
+    grid = np.geomspace(q0 / 20.0, q0 * 20.0, int(points))
+    power = np.asarray(note_sweep(inputs, "airflow", grid)["allowable_power"], float)
+    target = float(np.asarray(inputs.source.power))
+    above = np.nonzero(power >= target)[0]
+    if above.size == 0:
+        return None
+    i = int(above[0])
+    if i == 0:
+        return float(grid[0])
+    return float(np.interp(target, power[i - 1 : i + 1], grid[i - 1 : i + 1]))

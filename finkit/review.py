@@ -783,6 +783,8 @@ class Calibration:
         Points less one [-].
     statement : str
         What the multiplier is and is not, for the note [-].
+    is_applied : bool
+        True when the case's results use the multiplier (``calibration.apply``) [-].
     """
 
     target: str
@@ -799,6 +801,7 @@ class Calibration:
     rms_residual: float
     degrees_of_freedom: int
     statement: str
+    is_applied: bool = False
 
 
 CALIBRATION_TARGETS = ("heat_transfer", "sink_resistance")

@@ -69,17 +69,17 @@ def test_validated_values_are_si_floats():
     # Source: SI prefixes; T/K = t/°C + 273.15 (SI Brochure 2019)
     assert case.sink.fins.thickness == pytest.approx(1.2e-3, rel=1e-12)
     assert case.sink.base.width == pytest.approx(0.080, rel=1e-12)
-    assert case.source.power == 45.0
+    assert case.source.power == 40.0
     assert case.source.interface.area_resistance == pytest.approx(0.2e-4, rel=1e-12)
     assert case.air.inlet_temperature == pytest.approx(323.15, rel=1e-12)
     assert case.air.surroundings_temperature == case.air.inlet_temperature  # the default
     assert case.limit.temperature == pytest.approx(378.15, rel=1e-12)
-    assert case.limit.required_margin == pytest.approx(10.0, rel=1e-12)
+    assert case.limit.required_margin == pytest.approx(5.0, rel=1e-12)
     fan = case.air.flow.fan
     assert case.air.flow.mode == "fan"
     # Source: CFM = ft³/min exact; inH2O conventional (methods.md section 0)
-    assert fan.volume_flow[-1] == pytest.approx(20 * FOOT**3 / 60, rel=1e-12)
-    assert fan.pressure[0] == pytest.approx(0.30 * IN_H2O, rel=1e-12)
+    assert fan.volume_flow[-1] == pytest.approx(14 * FOOT**3 / 60, rel=1e-12)
+    assert fan.pressure[0] == pytest.approx(0.18 * IN_H2O, rel=1e-12)
     assert all(isinstance(v, float) for v in fan.volume_flow + fan.pressure)
     assert case.air.bypass.side_gap == pytest.approx(4e-3, rel=1e-12)
     assert case.entered["sink"]["fins"]["thickness"] == "1.2 mm"  # as written, for the note
