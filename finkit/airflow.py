@@ -1080,7 +1080,7 @@ def split_bypass(
         upper,
         lower_value=lower_value,
         upper_value=upper_value,
-        xatol=1e-12,
+        xatol=1e-10,
         xrtol=0.0,
         maxiter=maxiter,
     )
@@ -1094,6 +1094,63 @@ def split_bypass(
     return BypassSplit(
         q_sink[()], q_bypass[()], np.array(pressure)[()], np.asarray(root.is_converged)[()]
     )
+
+
+def _bypass_newton(fan, pressure_ratio, dp_sink, dp_bypass, extra, maxiter=40):
+    """Damped Newton on (sink flow a, bypass flow b) for a fan with bypass; see the caller.
+
+    Residuals: ``r1 = dp_sink(a) - dp_bypass(b)`` and ``r2 = fan(a + b) - dp_sink(a) -
+    extra(a + b)`` (fan scaled by ``pressure_ratio``). Returns ``(a, b, converged)``; elements
+    that leave the feasible box or do not meet the tolerance are flagged unconverged.
+    """
+    q_free = fan.free_delivery
+    q_max = q_free * (1.0 - 1e-9)
+    step = 1e-7 * q_free
+    dp_scale = fan.shut_off_pressure * float(np.max(pressure_ratio))
+
+    def fan_side(q):
+        value = fan.pressure(q) * pressure_ratio
+        if extra is not None:
+            value = value - np.asarray(extra(q), float)
+        return value
+
+    def residuals(a, b):
+        fa = np.asarray(dp_sink(a), float)
+        fb = np.asarray(dp_bypass(b), float)
+        return fa, fb, fa - fb, fan_side(a + b) - fa
+
+    shape = np.shape(np.asarray(dp_sink(np.float64(0.5 * q_free)), float) * pressure_ratio)
+    a = np.full(shape, 0.6 * q_free)
+    b = np.full(shape, 0.1 * q_free)
+    converged = np.zeros(shape, bool)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        fa, fb, r1, r2 = residuals(a, b)
+        for _ in range(maxiter):
+            q = a + b
+            sa = (np.asarray(dp_sink(a + step), float) - fa) / step
+            sb = (np.asarray(dp_bypass(b + step), float) - fb) / step
+            sq = (fan_side(q) - fan_side(q - step)) / step
+            det = sa * sq + sb * (sq - sa)
+            da = (-r1 * sq - sb * r2) / det
+            db = (-sa * r2 + (sq - sa) * r1) / det
+            # damping: stay inside 0 < a, 0 <= b, a + b < free delivery
+            new_a = np.clip(a + da, 1e-3 * a, None)
+            new_b = np.clip(b + db, 0.0, None)
+            over = new_a + new_b > q_max
+            shrink = np.where(over, q_max / (new_a + new_b), 1.0)
+            new_a, new_b = new_a * shrink, new_b * shrink
+            moved = np.maximum(np.abs(new_a - a), np.abs(new_b - b))
+            a, b = new_a, new_b
+            fa, fb, r1, r2 = residuals(a, b)
+            converged = (
+                (np.abs(r1) <= 1e-9 * dp_scale)
+                & (np.abs(r2) <= 1e-9 * dp_scale)
+                & (moved <= 1e-10 * q_free)
+            )
+            if np.all(converged | ~np.isfinite(r1 + r2)):
+                break
+    converged &= np.isfinite(r1 + r2)
+    return a, b, converged
 
 
 def split_bypass_at_approach_velocity(
@@ -1164,6 +1221,7 @@ def operating_point_with_bypass(
     extra_pressure_drop: SystemPressureDrop | None = None,
     density=None,
     *,
+    pressure_factor=1.0,
     raise_on_failure: bool = False,
     maxiter: int = 100,
 ) -> BypassOperatingPoint:
@@ -1182,6 +1240,8 @@ def operating_point_with_bypass(
         grilles) [Pa], at the total flow.
     density : float or array_like, optional
         Air density at the fan [kg m⁻³]; None: the rating density.
+    pressure_factor : float or array_like, default 1.0
+        Multiplier on the fan's pressure (ageing, tolerance), per design [-].
     raise_on_failure : bool, default False
         Raise :class:`~finkit.errors.SolverError` when a design has no operating point.
     maxiter : int, default 100
@@ -1198,7 +1258,14 @@ def operating_point_with_bypass(
     of the parallel sink/bypass pair from :func:`split_bypass`, plus the extra series loss;
     :func:`operating_point` crosses it with the fan curve. Both levels are vectorised over
     the designs.
+
+    Fast path: for a fan curve without a stall region, the three balances (sink = bypass
+    pressure drop, fan = duct pressure drop) are first solved together for the sink and bypass
+    flows by a damped two-variable Newton iteration, about ten times fewer pressure-drop
+    evaluations than the nested solve; any design where it does not converge to the residual
+    tolerance is solved by the nested bracketed method above, which is always the reference.
     """
+    factor = np.asarray(pressure_factor, dtype=float)
 
     def sink_and_bypass(q):
         return split_bypass(q, sink_pressure_drop, bypass_pressure_drop, maxiter=maxiter)
@@ -1207,12 +1274,35 @@ def operating_point_with_bypass(
         dp = np.asarray(sink_and_bypass(q).pressure_drop, dtype=float)
         if extra_pressure_drop is not None:
             dp = dp + np.asarray(extra_pressure_drop(q), dtype=float)
-        return dp
+        return dp / factor
 
-    result, ratio = _fan_balance(fan, system, density, maxiter)
-    q = np.asarray(result.x)
-    split = sink_and_bypass(np.where(np.isnan(q), 0.0, q))
-    converged = np.asarray(result.is_converged) & np.asarray(split.is_converged)
+    ratio = fan.density_ratio(density)
+    fast = None
+    if not fan.has_stall_region:
+        fast = _bypass_newton(
+            fan, ratio * factor, sink_pressure_drop, bypass_pressure_drop, extra_pressure_drop
+        )
+    if fast is not None and np.all(fast[2]):
+        a, b, _ = fast
+        q = a + b
+        dp_sink = np.asarray(sink_pressure_drop(a), float)
+        split = BypassSplit(a, b, dp_sink, np.ones(np.shape(q), bool))
+        converged = np.ones(np.shape(q), bool)
+    else:
+        result, ratio = _fan_balance(fan, system, density, maxiter)
+        q = np.asarray(result.x)
+        split = sink_and_bypass(np.where(np.isnan(q), 0.0, q))
+        converged = np.asarray(result.is_converged) & np.asarray(split.is_converged)
+        if fast is not None:
+            a, b, ok = fast
+            q = np.where(ok, a + b, q)
+            split = BypassSplit(
+                np.where(ok, a, split.sink_volume_flow),
+                np.where(ok, b, split.bypass_volume_flow),
+                np.where(ok, np.asarray(sink_pressure_drop(a), float), split.pressure_drop),
+                np.asarray(split.is_converged) | ok,
+            )
+            converged = converged | ok
     if raise_on_failure and not np.all(converged):
         raise SolverError(_failure_message("operating_point_with_bypass", fan, converged))
     missing = np.isnan(q)
@@ -1225,7 +1315,7 @@ def operating_point_with_bypass(
         out(q),
         out(split.sink_volume_flow),
         out(split.bypass_volume_flow),
-        out(fan.pressure(q) * ratio),
+        out(fan.pressure(q) * ratio * factor),
         out(split.pressure_drop),
         np.array(np.broadcast_to(converged, shape))[()],
         np.array(np.broadcast_to(fan.is_in_stall_region(q), shape))[()],

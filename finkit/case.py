@@ -44,6 +44,7 @@ from pydantic_core import PydanticCustomError
 
 from finkit.errors import InputError
 from finkit.properties.atmosphere import ALTITUDE_RANGE  # the standard atmosphere's range [m]
+from finkit.explore_schema import MonteCarloBlock, TolerancesBlock, TradeStudyBlock
 from finkit.review_schema import (
     CalibrationBlock,
     HeatTransferCoefficientOverride,
@@ -618,6 +619,9 @@ class HeatSinkCase(Case):
     touch: TouchBlock | None = None
     measurements: list[MeasurementBlock] = []
     calibration: CalibrationBlock | None = None
+    tolerances: TolerancesBlock | None = None
+    monte_carlo: MonteCarloBlock | None = None
+    trade_study: TradeStudyBlock | None = None
 
     @model_validator(mode="after")
     def _review_blocks(self):

@@ -109,6 +109,8 @@ class CaseResult:
         The physics inputs used.
     review : ReviewResult or None
         Scenarios, touch check, calibration, correlation spread and input flags.
+    uncertainty : UncertaintyResult or None
+        Monte Carlo over the case's tolerances and the tornado data (when it has tolerances).
     """
 
     case: Any
@@ -119,6 +121,7 @@ class CaseResult:
     allowable: SinkSolution | None = None
     inputs: SinkInputs | None = None
     review: ReviewResult | None = None
+    uncertainty: UncertaintyResult | None = None
     created: str = field(
         default_factory=lambda: _dt.datetime.now(_dt.UTC).astimezone().isoformat(timespec="seconds")
     )
@@ -128,6 +131,8 @@ class CaseResult:
         from finkit.case import case_inputs_sha256
 
         extra = {} if self.review is None else {"review": self.review.to_json_dict()}
+        if self.uncertainty is not None:
+            extra["uncertainty"] = self.uncertainty.to_json_dict()
         return {
             **extra,
             "case": self.case.case_id,
@@ -209,6 +214,30 @@ class ReviewResult:
                 }
                 for r in self.spread.rows
             ]
+        return out
+
+
+@dataclass(frozen=True)
+class UncertaintyResult:
+    """Monte Carlo of the node temperatures and one-at-a-time sensitivity (tornado).
+
+    Attributes
+    ----------
+    monte_carlo : finkit.uncertainty.MonteCarloResult
+        Samples, percentiles and the probability of exceeding the limit.
+    tornado : finkit.uncertainty.Tornado
+        Limit-node temperature at the low and high end of each toleranced input.
+    """
+
+    monte_carlo: Any
+    tornado: Any
+
+    def to_json_dict(self) -> dict:
+        """Summary for ``results.json`` (temperatures in °C, probabilities as fractions)."""
+        out = {}
+        for name, value in self.monte_carlo.summary().items():
+            is_temperature = name.endswith("_temperature") and not name.startswith("std")
+            out[name] = float(value) - ZERO_CELSIUS if is_temperature else float(value)
         return out
 
 
@@ -404,6 +433,7 @@ def run_case(case) -> CaseResult:
         status=status,
         results=results,
         warnings=tuple(warnings),
+        uncertainty=_uncertainty(case, inputs),
         solution=sol,
         allowable=at_margin,
         inputs=inputs,
@@ -422,6 +452,23 @@ def _calibrated(case, inputs: SinkInputs):
     if case.calibration is not None and case.calibration.apply:
         return apply_calibration(inputs, fit), replace(fit, is_applied=True)
     return inputs, fit
+
+
+def _uncertainty(case, inputs: SinkInputs) -> UncertaintyResult | None:
+    """Monte Carlo and tornado over the case's ``tolerances`` block (None without one)."""
+    if case.tolerances is None:
+        return None
+    from finkit.explore_schema import MonteCarloBlock, to_tolerances
+    from finkit.uncertainty import monte_carlo, sensitivity
+
+    settings = case.monte_carlo or MonteCarloBlock()
+    tolerances = to_tolerances(case.tolerances)
+    return UncertaintyResult(
+        monte_carlo=monte_carlo(
+            inputs, tolerances, settings.samples, settings.seed, settings.sampling
+        ),
+        tornado=sensitivity(inputs, tolerances, settings.tornado_coverage),
+    )
 
 
 def _review(case, inputs: SinkInputs, calibration) -> ReviewResult:

@@ -43,6 +43,7 @@ from finkit.airflow import (
     bracketed_root,
     bypass_gap_pressure_drop,
     operating_point,
+    operating_point_with_bypass,
     split_bypass,
 )
 from finkit.correlations import forced, natural
@@ -494,7 +495,24 @@ def solve_airflow(
     else:
         system = dp_sink
 
-    if isinstance(flow, FanDriven):
+    fan_with_bypass = None
+    if isinstance(flow, FanDriven) and gaps is not None:
+        fan_with_bypass = operating_point_with_bypass(
+            flow.fan,
+            dp_sink,
+            dp_bypass,
+            options.extra_pressure_drop,
+            density=rho,
+            pressure_factor=options.fan_pressure_factor,
+        )
+        converged = np.asarray(fan_with_bypass.is_converged)
+        if not np.all(converged):
+            raise SolverError(
+                "air.flow.fan: the fan curve does not cross the system curve for "
+                f"{int(np.sum(~converged))} design(s); no operating point"
+            )
+        total = np.asarray(fan_with_bypass.volume_flow, float)
+    elif isinstance(flow, FanDriven):
         extra, factor = options.extra_pressure_drop, options.fan_pressure_factor
 
         def fan_system(q):
@@ -516,7 +534,11 @@ def solve_airflow(
     else:
         raise InputError("air.flow: natural convection has no forced airflow to solve")
 
-    if gaps is not None:
+    if fan_with_bypass is not None:
+        q_sink = fan_with_bypass.sink_volume_flow
+        q_bypass = fan_with_bypass.bypass_volume_flow
+        dp = fan_with_bypass.sink_pressure_drop
+    elif gaps is not None:
         split = split_bypass(total, dp_sink, dp_bypass)
         q_sink, q_bypass, dp = split.sink_volume_flow, split.bypass_volume_flow, split.pressure_drop
     else:
@@ -789,11 +811,34 @@ def _assemble(
     )
 
 
+_AIRFLOW_CACHE: list[tuple[tuple, _Airflow]] = []
+_AIRFLOW_CACHE_SIZE = 8
+
+
+def _cached_airflow(geometry, flow, air, bypass, options) -> _Airflow:
+    """:func:`solve_airflow`, remembered for the last few input objects.
+
+    The airflow does not depend on the power, so the two design questions asked of the same
+    inputs (temperatures, then allowable power at the limit and at the limit less the margin)
+    share one solution. Entries are matched by object identity and hold references to their
+    keys, so an identity can never be re-used by another object while it is cached; the input
+    dataclasses are frozen.
+    """
+    key = (geometry, flow, air, bypass, options)
+    for cached_key, value in _AIRFLOW_CACHE:
+        if all(a is b for a, b in zip(cached_key, key, strict=True)):
+            return value
+    value = solve_airflow(geometry, flow, air, bypass, options)
+    _AIRFLOW_CACHE.insert(0, (key, value))
+    del _AIRFLOW_CACHE[_AIRFLOW_CACHE_SIZE:]
+    return value
+
+
 def _solve_forced(
     geometry, material, source, air, flow, bypass, options, *, power=None, limit=None
 ):
     """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``."""
-    airflow = solve_airflow(geometry, flow, air, bypass, options)
+    airflow = _cached_airflow(geometry, flow, air, bypass, options)
     inlet = air_properties(air.inlet_temperature, air.pressure)
     is_shrouded = bypass is None or np.all(np.asarray(bypass.top_gap) <= 0)
     t_in = np.asarray(air.inlet_temperature, float)

@@ -575,3 +575,35 @@ def test_fan_with_bypass_no_point_flags_or_raises():
         operating_point_with_bypass(
             FAN, sink_curve(), gap_curve(5e-4), extra, raise_on_failure=True
         )
+
+
+@pytest.mark.identity
+def test_newton_fast_path_with_bypass_equals_the_nested_solve():
+    # Identity: the two-variable Newton fast path of operating_point_with_bypass reaches the
+    # same balance as the nested bracketed solve (operating_point over split_bypass).
+    rng = np.random.default_rng(11)
+    n = 400
+    fan = FanCurve([0.0, 0.003, 0.006, 0.009, 0.012], [90.0, 75.0, 55.0, 30.0, 0.0])
+    a = rng.uniform(500.0, 8000.0, n)
+    b = rng.uniform(1.0e5, 3.0e6, n)
+    gap = rng.uniform(2.0e-5, 6.0e-4, n)
+    factor = rng.uniform(0.8, 1.1, n)
+
+    def sink(q):
+        return a * q + b * q * q
+
+    def gaps(q):
+        return bypass_gap_pressure_drop(q, gap, 0.004, 0.05, 1.16, 1.86e-5)
+
+    fast = operating_point_with_bypass(fan, sink, gaps, density=1.16, pressure_factor=factor)
+
+    def system(q):
+        return split_bypass(q, sink, gaps).pressure_drop / factor
+
+    nested = operating_point(fan, system, density=1.16)
+    assert np.all(fast.is_converged)
+    np.testing.assert_allclose(fast.volume_flow, nested.volume_flow, rtol=1e-7)
+    np.testing.assert_allclose(fast.pressure_drop, fan.pressure(fast.volume_flow, 1.16) * factor)
+    np.testing.assert_allclose(
+        sink(fast.sink_volume_flow), gaps(fast.bypass_volume_flow), rtol=1e-7
+    )
