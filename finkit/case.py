@@ -43,8 +43,8 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from finkit.errors import InputError
-from finkit.properties.atmosphere import ALTITUDE_RANGE  # the standard atmosphere's range [m]
 from finkit.explore_schema import MonteCarloBlock, TolerancesBlock, TradeStudyBlock
+from finkit.properties.atmosphere import ALTITUDE_RANGE  # the standard atmosphere's range [m]
 from finkit.review_schema import (
     CalibrationBlock,
     HeatTransferCoefficientOverride,
