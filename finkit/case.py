@@ -96,6 +96,7 @@ SWEEP_NAMES = (
     "fin_height",
     "fin_thickness",
     "altitude",
+    "power",
 )
 
 _CASE_ID = re.compile(r"^[a-z0-9][a-z0-9._-]{0,63}$")

@@ -520,8 +520,18 @@ def _run_single_fin(case) -> CaseResult:
     results = {name: None for name in RESULT_UNITS}
     results.update(study.results)
     status = "pass"
-    if case.limit is not None and results.get("temperature_margin") is not None:
-        status = "pass" if results["temperature_margin"] >= case.limit.required_margin else "fail"
+    if case.limit is not None:
+        # The base is the hottest point of a fin; its limit is checked against the stated base
+        # temperature (e.g. a part's allowed mounting temperature).
+        base = case.conditions.base_temperature
+        margin = case.limit.temperature - base
+        results.update(
+            limit_node_temperature=base - ZERO_CELSIUS,
+            limit_temperature=case.limit.temperature - ZERO_CELSIUS,
+            temperature_margin=margin,
+            required_margin=case.limit.required_margin,
+        )
+        status = "pass" if margin >= case.limit.required_margin else "fail"
     return CaseResult(case=case, status=status, results=results, warnings=study.warnings)
 
 
@@ -532,20 +542,35 @@ def _run_single_fin(case) -> CaseResult:
 SWEEPABLE = (
     "inlet_temperature",
     "airflow",
+    "heat_transfer_coefficient",
     "fin_count",
     "fin_height",
     "fin_thickness",
     "altitude",
     "power",
 )
+"""Inputs a sweep (and a case's ``sweeps`` list) may vary."""
 
 
 def swept_inputs(inputs: SinkInputs, name: str, values) -> SinkInputs:
-    """A copy of ``inputs`` with one quantity replaced by an array of values (SI)."""
+    """A copy of ``inputs`` with one quantity replaced by an array of values (SI).
+
+    ``inlet_temperature``: the surroundings the sink radiates to keep their offset from the
+    inlet air (walls warmed by the same air). ``heat_transfer_coefficient``: every air-side
+    surface gets that h instead of the correlations (``ModelOptions.
+    heat_transfer_coefficient_override``), a sensitivity to the correlation. ``fin_height`` of a
+    pin-fin sink is the pin height; ``fin_count`` and ``fin_thickness`` apply to plate fins.
+    """
     values = np.asarray(values, float)
     g = inputs.geometry
     if name == "inlet_temperature":
-        return replace(inputs, air=replace(inputs.air, inlet_temperature=values))
+        air = replace(inputs.air, inlet_temperature=values)
+        if inputs.air.surroundings_temperature is not None:
+            offset = np.asarray(inputs.air.surroundings_temperature, float) - np.asarray(
+                inputs.air.inlet_temperature, float
+            )
+            air = replace(air, surroundings_temperature=values + offset)
+        return replace(inputs, air=air)
     if name == "altitude":
         p = standard_atmosphere(values).pressure
         return replace(inputs, air=replace(inputs.air, pressure=np.asarray(p, float)))
@@ -553,25 +578,40 @@ def swept_inputs(inputs: SinkInputs, name: str, values) -> SinkInputs:
         if isinstance(inputs.flow, NaturalConvection):
             raise InputError("sweeps: 'airflow' does not apply to natural convection")
         return replace(inputs, flow=GivenVolumeFlow(values))
+    if name == "heat_transfer_coefficient":
+        options = replace(inputs.options, heat_transfer_coefficient_override=values)
+        return replace(inputs, options=options)
     if name == "power":
         return replace(inputs, source=replace(inputs.source, power=values))
+    if name == "fin_height" and isinstance(g, PinFinSink):
+        return replace(inputs, geometry=replace(g, pin_height=values))
     if name in ("fin_count", "fin_height", "fin_thickness"):
         if not isinstance(g, PlateFinSink):
             raise InputError(f"sweeps: {name!r} applies to plate-fin sinks only")
-        field_name = {"fin_count": "fin_count", "fin_height": "fin_height"}.get(
-            name, "fin_thickness"
-        )
-        return replace(inputs, geometry=replace(g, **{field_name: values}))
+        return replace(inputs, geometry=replace(g, **{name: values}))
     raise InputError(f"sweeps: got {name!r}; allowed: {', '.join(SWEEPABLE)}")
 
 
 def sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
     """Temperatures at the stated power and allowable power over an array of one input.
 
-    Returns a dict of arrays: ``values`` (SI), ``junction_temperature``, ``base_temperature``,
-    ``limit_node_temperature`` [K], ``allowable_power`` [W] (at the limit less the required
-    margin, zero where the inlet air leaves no margin), ``sink_resistance`` [K W⁻¹],
-    ``fin_efficiency`` [-], ``pressure_drop`` [Pa].
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The case's physics inputs. [-]
+    name : str
+        One of :data:`SWEEPABLE`. [-]
+    values : array_like
+        Values of the swept quantity in SI (K, m³ s⁻¹, W m⁻² K⁻¹, -, m, m, m, W). [SI]
+
+    Returns
+    -------
+    dict
+        Arrays: ``values`` (SI), ``junction_temperature``, ``base_temperature``,
+        ``limit_node_temperature`` [K], ``allowable_power`` [W] (at the limit less the required
+        margin, zero where the inlet air leaves no margin), ``sink_resistance`` [K W⁻¹],
+        ``fin_efficiency`` [-], ``pressure_drop`` [Pa], ``heat_transfer_coefficient``
+        [W m⁻² K⁻¹].
     """
     swept = swept_inputs(inputs, name, values)
     sol = solve(swept)
@@ -606,8 +646,8 @@ def sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
 # Quantities the calculation notes plot that the solution does not carry itself. Physics stays
 # here (finkit.report only formats and draws); every function re-uses the model's own inputs.
 
-#: Sweeps a note can draw: :data:`SWEEPABLE` plus the heat transfer coefficient.
-NOTE_SWEEPS = (*SWEEPABLE, "heat_transfer_coefficient")
+#: Sweeps a note can draw (the same as :data:`SWEEPABLE`).
+NOTE_SWEEPS = SWEEPABLE
 
 
 def is_fin_tip_exposed(inputs: SinkInputs) -> bool:
@@ -774,78 +814,8 @@ def fan_pressure(inputs: SinkInputs, volume_flow) -> dict[str, np.ndarray]:
     }
 
 
-def _sweep_swept(inputs: SinkInputs, swept: SinkInputs, values) -> dict[str, np.ndarray]:
-    """The body of :func:`sweep` for inputs already swept (same keys, same conventions)."""
-    sol = solve(swept)
-    usable = inputs.limit_temperature - inputs.required_margin
-    shape = np.shape(sol.power)
-    t_in = np.broadcast_to(np.asarray(swept.air.inlet_temperature, float), shape)
-    ok = t_in < usable - 1e-6
-    t_clip = np.minimum(t_in, usable - 1e-3)
-    air = replace(swept.air, inlet_temperature=t_clip)
-    if swept.air.surroundings_temperature is not None:
-        # Clipped points keep their surroundings-to-inlet offset (their result is discarded).
-        air = replace(
-            air, surroundings_temperature=swept.air.surroundings_temperature + t_clip - t_in
-        )
-    power = np.where(ok, np.asarray(allowable(replace(swept, air=air)).power, float), 0.0)
-    return {
-        "values": np.asarray(values, float),
-        "junction_temperature": sol.junction_temperature,
-        "base_temperature": sol.base_temperature,
-        "limit_node_temperature": sol.node_temperature(inputs.limit_node),
-        "allowable_power": power,
-        "sink_resistance": sol.sink_resistance,
-        "fin_efficiency": sol.fin_efficiency,
-        "pressure_drop": sol.pressure_drop,
-        "heat_transfer_coefficient": sol.heat_transfer_coefficient,
-    }
-
-
 def note_sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
-    """:func:`sweep` for a note, over any name of :data:`NOTE_SWEEPS`.
-
-    Differs from :func:`sweep` for ``inlet_temperature``: the surroundings temperature
-    (radiation) moves with the inlet air, keeping the case's offset. Adds
-    ``heat_transfer_coefficient`` (every air-side surface given that h instead of the
-    correlations, through ``ModelOptions.heat_transfer_coefficient_override``: a sensitivity to
-    the correlation) and ``fin_height`` of a pin-fin sink (the pin height).
-
-    Parameters
-    ----------
-    inputs : SinkInputs
-        The case's physics inputs. [-]
-    name : str
-        One of :data:`NOTE_SWEEPS`. [-]
-    values : array_like
-        Values of the swept quantity in SI (K, m³ s⁻¹, -, m, m, m, W, W m⁻² K⁻¹). [SI]
-
-    Returns
-    -------
-    dict
-        As :func:`sweep`.
-    """
-    values = np.asarray(values, float)
-    if name == "inlet_temperature" and inputs.air.surroundings_temperature is not None:
-        # The surroundings the sink radiates to keep their offset from the inlet air (walls
-        # warmed by the same air); otherwise a cool inlet under hot walls, or the reverse,
-        # would describe another installation.
-        offset = np.asarray(inputs.air.surroundings_temperature, float) - np.asarray(
-            inputs.air.inlet_temperature, float
-        )
-        air = replace(
-            inputs.air, inlet_temperature=values, surroundings_temperature=values + offset
-        )
-        return _sweep_swept(inputs, replace(inputs, air=air), values)
-    if name == "heat_transfer_coefficient":
-        swept = replace(
-            inputs,
-            options=replace(inputs.options, heat_transfer_coefficient_override=values),
-        )
-        return _sweep_swept(inputs, swept, values)
-    if name == "fin_height" and isinstance(inputs.geometry, PinFinSink):
-        swept = replace(inputs, geometry=replace(inputs.geometry, pin_height=values))
-        return _sweep_swept(inputs, swept, values)
+    """:func:`sweep`, under the name the note templates call."""
     return sweep(inputs, name, values)
 
 
