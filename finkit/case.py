@@ -40,7 +40,6 @@ from pydantic import (
     field_validator,
     model_validator,
 )
-from pydantic_core import PydanticCustomError
 
 from finkit.errors import InputError
 from finkit.explore_schema import MonteCarloBlock, TolerancesBlock, TradeStudyBlock
@@ -55,7 +54,17 @@ from finkit.review_schema import (
     ScenarioBlock,
     TouchBlock,
 )
-from finkit.units import format_quantity, to_si
+from finkit.schema_fields import (
+    StrictModel,
+    Text,
+    fail,
+    fail_many,
+    format_bound,
+    quantity,
+    shown,
+    whole,
+)
+from finkit.units import to_si
 
 __all__ = [
     "CASE_KINDS",
@@ -120,86 +129,8 @@ class CaseError(InputError):
 # Field types
 
 
-def _fail(message: str) -> PydanticCustomError:
-    return PydanticCustomError("finkit", "{message}", {"message": message})
-
-
-def _fail_many(problems: list[tuple[str, str]]) -> PydanticCustomError:
-    """Several problems found by one model check: (field relative to the model, message)."""
-    return PydanticCustomError("finkit_many", "{problems}", {"problems": json.dumps(problems)})
-
-
-def _shown(value) -> str:
-    return f"'{value}'" if isinstance(value, str) else repr(value)
-
-
-_SHOW_UNIT = {
-    "length": "mm",
-    "temperature": "degC",
-    "temperature_difference": "K",
-    "area": "mm^2",
-    "thermal_resistance": "K/W",
-    "area_resistance": "K*m^2/W",
-    "power": "W",
-    "velocity": "m/s",
-    "volume_flow": "m^3/s",
-    "pressure": "Pa",
-    "density": "kg/m^3",
-    "thermal_conductivity": "W/m/K",
-    "heat_transfer_coefficient": "W/m^2/K",
-    "dimensionless": "",
-}
-
-
-def _fmt(value_si: float, kind: str, unit: str | None = None) -> str:
-    return format_quantity(value_si, kind, _SHOW_UNIT[kind] if unit is None else unit)
-
-
-def _quantity(kind: str, *, gt=None, ge=None, le=None, show: str | None = None):
-    """A float field given with a unit in the case file and stored in SI.
-
-    ``gt``/``ge``/``le`` are bounds in SI; ``show`` is the unit used to print a bound.
-    """
-
-    def limit(bound: float) -> str:
-        return "0" if bound == 0 else _fmt(bound, kind, show)
-
-    def convert(value):
-        try:
-            x = to_si(value, kind, "")
-        except InputError as exc:
-            raise _fail(str(exc)) from None
-        if gt is not None and not x > gt:
-            raise _fail(f"must be greater than {limit(gt)} (got {_shown(value)})")
-        if ge is not None and not x >= ge:
-            raise _fail(f"must be at least {limit(ge)} (got {_shown(value)})")
-        if le is not None and not x <= le:
-            raise _fail(f"must be at most {limit(le)} (got {_shown(value)})")
-        return x
-
-    return Annotated[float, BeforeValidator(convert)]
-
-
-def _whole(minimum: int):
-    def convert(value):
-        ok = isinstance(value, int) and not isinstance(value, bool)
-        if isinstance(value, float) and value.is_integer():
-            value, ok = int(value), True
-        if not ok or value < minimum:
-            raise _fail(f"must be a whole number of at least {minimum} (got {_shown(value)})")
-        return value
-
-    return Annotated[int, BeforeValidator(convert)]
-
-
-def _text(value):
-    if isinstance(value, bool) or value is None:
-        raise _fail(f"expected text (got {_shown(value)})")
-    if isinstance(value, (int, float)):
-        value = str(value)
-    if not isinstance(value, str) or not value.strip():
-        raise _fail(f"expected non-empty text (got {_shown(value)})")
-    return value.strip()
+_fail, _fail_many, _shown, _fmt = fail, fail_many, shown, format_bound
+_whole, _quantity = whole, quantity
 
 
 def _key(value):
@@ -208,7 +139,6 @@ def _key(value):
     return value.strip()
 
 
-Text = Annotated[str, BeforeValidator(_text)]
 Key = Annotated[str, BeforeValidator(_key)]
 Length = _quantity("length", gt=0.0)
 Gap = _quantity("length", ge=0.0)
@@ -238,8 +168,7 @@ def _case_id(value):
     return value
 
 
-class _Model(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+_Model = StrictModel
 
 
 def _given(model: BaseModel, names) -> list[str]:

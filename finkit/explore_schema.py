@@ -47,15 +47,13 @@ from typing import Annotated, Literal
 
 import numpy as np
 from pydantic import (
-    BaseModel,
     BeforeValidator,
-    ConfigDict,
     ValidationError,
     model_validator,
 )
-from pydantic_core import PydanticCustomError
 
 from finkit.errors import InputError
+from finkit.schema_fields import StrictModel, fail, fail_many, quantity, whole
 from finkit.trade import Envelope, ManufacturingBounds
 from finkit.uncertainty import TOLERANCE_INPUTS, Tolerance
 from finkit.units import to_si
@@ -93,12 +91,7 @@ class ExploreError(InputError):
         super().__init__("\n".join(self.errors))
 
 
-def _fail(message: str) -> PydanticCustomError:
-    return PydanticCustomError("finkit", "{message}", {"message": message})
-
-
-def _fail_many(problems: list[tuple[str, str]]) -> PydanticCustomError:
-    return PydanticCustomError("finkit_many", "{problems}", {"problems": json.dumps(problems)})
+_fail, _fail_many = fail, fail_many
 
 
 def _raw(kind: str):
@@ -117,33 +110,13 @@ def _raw(kind: str):
 
 
 def _si(kind: str, *, ge: float | None = None, gt: float | None = None):
-    def convert(value):
-        try:
-            x = to_si(value, kind, "")
-        except InputError as exc:
-            raise _fail(str(exc)) from None
-        if gt is not None and not x > gt:
-            raise _fail(f"must be greater than {gt:g} (got {value!r})")
-        if ge is not None and not x >= ge:
-            raise _fail(f"must be at least {ge:g} (got {value!r})")
-        return x
-
-    return Annotated[float, BeforeValidator(convert)]
+    return quantity(kind, ge=ge, gt=gt)
 
 
-def _whole(minimum: int):
-    def convert(value):
-        if isinstance(value, float) and value.is_integer():
-            value = int(value)
-        if isinstance(value, bool) or not isinstance(value, int) or value < minimum:
-            raise _fail(f"must be a whole number of at least {minimum} (got {value!r})")
-        return value
-
-    return Annotated[int, BeforeValidator(convert)]
+_whole = whole
 
 
-class _Model(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+_Model = StrictModel
 
 
 # --------------------------------------------------------------------------------------

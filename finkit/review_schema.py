@@ -45,12 +45,11 @@ import re
 from collections.abc import Mapping
 from typing import Annotated, Literal
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict, ValidationError, model_validator
-from pydantic_core import PydanticCustomError
+from pydantic import BeforeValidator, ValidationError, model_validator
 
 from finkit.errors import InputError
 from finkit.properties.atmosphere import ALTITUDE_RANGE
-from finkit.units import to_si
+from finkit.schema_fields import StrictModel, Text, fail, fail_at, quantity, shown, whole
 
 __all__ = [
     "JUNCTION_TO_CASE_BASES",
@@ -102,49 +101,12 @@ _NAME = re.compile(r"^[a-z0-9][a-z0-9._-]{0,63}$")
 # Field types
 
 
-def _fail(message: str) -> PydanticCustomError:
-    return PydanticCustomError("finkit", "{message}", {"message": message})
-
-
-def _fail_at(field: str, message: str) -> PydanticCustomError:
-    """A model check's problem with one of its fields (the ``finkit_many`` form of the case
-    schema: a JSON list of (field relative to the model, message))."""
-    return PydanticCustomError(
-        "finkit_many", "{problems}", {"problems": json.dumps([(field, message)])}
-    )
-
-
-def _shown(value) -> str:
-    return f"'{value}'" if isinstance(value, str) else repr(value)
+_fail, _fail_at, _shown = fail, fail_at, shown
 
 
 def _quantity(kind: str, *, gt=None, ge=None, le=None, unit: str = ""):
-    """A float field given with a unit and stored in SI; bounds in SI, printed with ``unit``."""
-
-    def convert(value):
-        try:
-            x = to_si(value, kind, "")
-        except InputError as exc:
-            raise _fail(str(exc)) from None
-        if gt is not None and not x > gt:
-            raise _fail(f"must be greater than {gt:g}{unit} (got {_shown(value)})")
-        if ge is not None and not x >= ge:
-            raise _fail(f"must be at least {ge:g}{unit} (got {_shown(value)})")
-        if le is not None and not x <= le:
-            raise _fail(f"must be at most {le:g}{unit} (got {_shown(value)})")
-        return x
-
-    return Annotated[float, BeforeValidator(convert)]
-
-
-def _text(value):
-    if isinstance(value, bool) or value is None:
-        raise _fail(f"expected text (got {_shown(value)})")
-    if isinstance(value, (int, float)):
-        value = str(value)
-    if not isinstance(value, str) or not value.strip():
-        raise _fail(f"expected non-empty text (got {_shown(value)})")
-    return value.strip()
+    """A float field given with a unit and stored in SI; bounds printed in ``unit``."""
+    return quantity(kind, gt=gt, ge=ge, le=le, show=unit.strip() or None)
 
 
 def _name(value):
@@ -156,18 +118,8 @@ def _name(value):
     return value
 
 
-def _count(value):
-    ok = isinstance(value, int) and not isinstance(value, bool)
-    if isinstance(value, float) and value.is_integer():
-        value, ok = int(value), True
-    if not ok or value < 1:
-        raise _fail(f"must be a whole number of at least 1 (got {_shown(value)})")
-    return value
-
-
-Text = Annotated[str, BeforeValidator(_text)]
 Name = Annotated[str, BeforeValidator(_name)]
-Count = Annotated[int, BeforeValidator(_count)]
+Count = whole(1)
 Temperature = _quantity("temperature")
 TemperatureDifference = _quantity("temperature_difference", ge=0.0, unit=" K")
 Altitude = _quantity("length", ge=ALTITUDE_RANGE[0], le=ALTITUDE_RANGE[1], unit=" m")
@@ -199,8 +151,7 @@ JunctionToCaseBasis = Literal[JUNCTION_TO_CASE_BASES]  # type: ignore[valid-type
 HeatTransferCoefficientOverride = HeatTransferCoefficient
 
 
-class _Model(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+_Model = StrictModel
 
 
 # --------------------------------------------------------------------------------------------

@@ -1,0 +1,120 @@
+"""Field types shared by the case-file schema and its optional blocks (pydantic v2).
+
+Every value written with a unit is converted to SI once, here at the boundary
+(:func:`finkit.units.to_si`); a bad value becomes a one-line message that the case loader
+prefixes with the field's path. Used by :mod:`finkit.case`, :mod:`finkit.review_schema` and
+:mod:`finkit.explore_schema`.
+"""
+
+from __future__ import annotations
+
+import json
+from typing import Annotated
+
+from pydantic import BaseModel, BeforeValidator, ConfigDict
+from pydantic_core import PydanticCustomError
+
+from finkit.errors import InputError
+from finkit.units import format_quantity, to_si
+
+#: Unit in which a bound of each kind is printed in an error message.
+SHOW_UNIT = {
+    "length": "mm",
+    "temperature": "degC",
+    "temperature_difference": "K",
+    "area": "mm^2",
+    "thermal_resistance": "K/W",
+    "area_resistance": "K*m^2/W",
+    "power": "W",
+    "velocity": "m/s",
+    "volume_flow": "m^3/s",
+    "pressure": "Pa",
+    "density": "kg/m^3",
+    "thermal_conductivity": "W/m/K",
+    "heat_transfer_coefficient": "W/m^2/K",
+    "dimensionless": "",
+}
+
+
+class StrictModel(BaseModel):
+    """A block of a case file: unknown keys are errors; validated blocks are immutable."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+
+def fail(message: str) -> PydanticCustomError:
+    """A field's problem, reported as its one-line message."""
+    return PydanticCustomError("finkit", "{message}", {"message": message})
+
+
+def fail_many(problems: list[tuple[str, str]]) -> PydanticCustomError:
+    """Several problems found by one model check: (field relative to the model, message)."""
+    return PydanticCustomError("finkit_many", "{problems}", {"problems": json.dumps(problems)})
+
+
+def fail_at(field: str, message: str) -> PydanticCustomError:
+    """One problem of a model check, placed on one of the model's fields."""
+    return fail_many([(field, message)])
+
+
+def shown(value) -> str:
+    """A value as the user wrote it, for a message."""
+    return f"'{value}'" if isinstance(value, str) else repr(value)
+
+
+def format_bound(value_si: float, kind: str, unit: str | None = None) -> str:
+    """A quantity in the unit a message shows for its kind (``unit`` overrides)."""
+    return format_quantity(value_si, kind, SHOW_UNIT[kind] if unit is None else unit)
+
+
+def quantity(kind: str, *, gt=None, ge=None, le=None, show: str | None = None):
+    """A float field given with a unit in the case file and stored in SI.
+
+    ``gt``/``ge``/``le`` are bounds in SI; ``show`` is the unit used to print a bound.
+    """
+
+    def limit(bound: float) -> str:
+        return "0" if bound == 0 else format_bound(bound, kind, show)
+
+    def convert(value):
+        try:
+            x = to_si(value, kind, "")
+        except InputError as exc:
+            raise fail(str(exc)) from None
+        if gt is not None and not x > gt:
+            raise fail(f"must be greater than {limit(gt)} (got {shown(value)})")
+        if ge is not None and not x >= ge:
+            raise fail(f"must be at least {limit(ge)} (got {shown(value)})")
+        if le is not None and not x <= le:
+            raise fail(f"must be at most {limit(le)} (got {shown(value)})")
+        return x
+
+    return Annotated[float, BeforeValidator(convert)]
+
+
+def whole(minimum: int):
+    """A whole-number field of at least ``minimum`` (``3.0`` is accepted as 3)."""
+
+    def convert(value):
+        ok = isinstance(value, int) and not isinstance(value, bool)
+        if isinstance(value, float) and value.is_integer():
+            value, ok = int(value), True
+        if not ok or value < minimum:
+            raise fail(f"must be a whole number of at least {minimum} (got {shown(value)})")
+        return value
+
+    return Annotated[int, BeforeValidator(convert)]
+
+
+def _text(value):
+    if isinstance(value, bool) or value is None:
+        raise fail(f"expected text (got {shown(value)})")
+    if isinstance(value, (int, float)):
+        value = str(value)
+    if not isinstance(value, str) or not value.strip():
+        raise fail(f"expected non-empty text (got {shown(value)})")
+    return value.strip()
+
+
+#: Non-empty text (numbers are taken as their text), stripped.
+Text = Annotated[str, BeforeValidator(_text)]
