@@ -1,9 +1,11 @@
-"""finkit's command line: ``finkit new``, ``finkit check``, ``finkit note``.
+"""finkit's command line: ``finkit new``, ``finkit check``, ``finkit note``, ``finkit batch``.
 
 Each sub-command parses its arguments and calls one public function; no physics here.
 
 Exit codes: 0 the case passes its limit (or the command did its job); 1 the case fails its
-limit; 2 the input is wrong (every :class:`finkit.errors.FinkitError` is printed to stderr as its
+limit; 2 the input is wrong (for ``finkit batch``: 0 every variant computed and passing, 1 some
+variant fails its limit, 2 some variant could not be computed or the input is wrong; 130 the
+batch was interrupted) (every :class:`finkit.errors.FinkitError` is printed to stderr as its
 one-line message(s), never as a traceback) or the command line itself is wrong.
 
 ``finkit.model`` and ``finkit.notes`` are imported inside the sub-commands, so ``finkit new``
@@ -103,7 +105,10 @@ def _note(args) -> int:
     from finkit.notes import render_note
 
     case_path = Path(args.case)
-    output = render_note(case_path, args.out, show_code=args.show_code)
+    template, results = _note_template(args.template)
+    output = render_note(
+        case_path, args.out, show_code=args.show_code, template=template, results=results
+    )
     html = getattr(output, "html", output)
     print(f"note written: {html}")
     for label in ("notebook", "results_json"):
@@ -114,6 +119,60 @@ def _note(args) -> int:
     if status is not None:
         print(f"status: {status}")
     return EXIT_FAIL if status == "fail" else EXIT_PASS
+
+
+#: Named note templates of ``finkit note --template NAME`` (a path to a notebook also works).
+NOTE_TEMPLATES = ("trade-study",)
+
+
+def _note_template(name: str | None):
+    """(template path or None, results callable or None) for ``finkit note --template``."""
+    if name is None:
+        return None, None
+    if name == "trade-study":
+        from finkit import report_trade
+
+        return report_trade.template_path(), report_trade.results_json
+    path = Path(name)
+    if path.suffix != ".ipynb":
+        raise FinkitError(
+            f"--template: got '{name}'; allowed: {', '.join(NOTE_TEMPLATES)} or a .ipynb file"
+        )
+    return path, None
+
+
+def _lab(args) -> int:
+    import importlib.util
+    import shutil
+    import subprocess
+
+    if not args.copy_only and importlib.util.find_spec("jupyterlab") is None:
+        raise FinkitError(
+            "finkit lab: JupyterLab is not installed in this environment; install it with "
+            f"'{sys.executable} -m pip install jupyterlab' (or use --copy-only)"
+        )
+    source = Path(__file__).resolve().parent.parent / "templates"
+    target = Path(args.dir)
+    notebooks = sorted(source.glob("*.ipynb"))
+    if not notebooks:
+        raise FinkitError(f"finkit lab: no templates found in '{source}'")
+    try:
+        target.mkdir(parents=True, exist_ok=True)
+        for notebook in notebooks:
+            copy = target / notebook.name
+            if copy.exists() and not args.force:
+                print(f"kept your copy {copy} (use --force to replace it)")
+                continue
+            shutil.copyfile(notebook, copy)
+            print(f"copied {notebook.name} -> {copy}")
+    except OSError as exc:
+        raise FinkitError(f"--dir: cannot write '{target}' ({exc.strerror})") from None
+    if args.copy_only:
+        return EXIT_PASS
+    command = [sys.executable, "-m", "jupyterlab", f"--ServerApp.root_dir={target.resolve()}"]
+    if args.no_browser:
+        command.append("--no-browser")
+    return subprocess.call(command)
 
 
 def _status_of(results_json) -> str | None:
@@ -129,6 +188,55 @@ def _status_of(results_json) -> str | None:
     return status if isinstance(status, str) else None
 
 
+def _batch(args) -> int:
+    from finkit.batch import run_batch
+
+    result = run_batch(
+        Path(args.base),
+        Path(args.variants),
+        args.out,
+        template=args.template,
+        jobs=args.jobs,
+        timeout=args.timeout,
+        force=args.force,
+        scheduler=args.scheduler,
+        show_code=args.show_code,
+        progress=not args.no_progress and sys.stderr.isatty(),
+    )
+    counts = result.counts()
+    print(
+        f"{len(result.outcomes)} variants: {counts['pass']} pass, {counts['fail']} fail, "
+        f"{counts['error']} not computed ({counts['computed']} computed, {counts['reused']} "
+        f"reused unchanged) in {result.seconds:.1f} s"
+    )
+    for outcome in result.outcomes:
+        if outcome.status == "error":
+            print(f"  {outcome.error}", file=sys.stderr)
+    print(f"overview: {result.index}")
+    print(f"  summary: {result.summary_csv}, {result.summary_json}")
+    return result.exit_code
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number of at least 1")
+    return value
+
+
+def _positive_float(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        value = 0.0
+    if not value > 0 or value == float("inf"):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a positive number of seconds")
+    return value
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``finkit`` command."""
     from finkit import __version__
@@ -137,7 +245,8 @@ def build_parser() -> argparse.ArgumentParser:
         prog="finkit",
         description="Finned surfaces and heat sinks for air cooling: check a case file, "
         "write a calculation note.",
-        epilog="Exit codes: 0 pass, 1 the case fails its limit, 2 input error.",
+        epilog="Exit codes: 0 pass, 1 the case fails its limit (batch: some variant), 2 input "
+        "error (batch: some variant could not be computed).",
     )
     parser.add_argument("--version", action="version", version=f"finkit {__version__}")
     sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
@@ -157,7 +266,61 @@ def build_parser() -> argparse.ArgumentParser:
     note.add_argument("case", metavar="CASE.yaml")
     note.add_argument("--out", metavar="DIR", required=True, help="output folder")
     note.add_argument("--show-code", action="store_true", help="keep code cells in the note")
+    note.add_argument(
+        "--template",
+        metavar="NAME|NOTEBOOK",
+        help="trade-study (needs a trade_study block), or a notebook template "
+        "(default: the template of the case's kind)",
+    )
     note.set_defaults(func=_note)
+
+    lab = sub.add_parser(
+        "lab",
+        help="open JupyterLab on a working copy of the templates (explorer, notes)",
+        description="Copy the notebook templates into a working folder (your copies are never "
+        "replaced without --force), then start JupyterLab there.",
+    )
+    lab.add_argument("--dir", default="lab", metavar="DIR", help="working folder (default: lab)")
+    lab.add_argument("--force", action="store_true", help="replace your copies of the templates")
+    lab.add_argument("--no-browser", action="store_true", help="do not open a browser")
+    lab.add_argument(
+        "--copy-only", action="store_true", help="copy the templates, do not start JupyterLab"
+    )
+    lab.set_defaults(func=_lab)
+
+    batch = sub.add_parser(
+        "batch",
+        help="write the notes of a base case's variants and an overview",
+        description="Render a note for every row of a variant table (overrides of the base case "
+        "by dotted path) and DIR/index.html, DIR/summary.csv, DIR/summary.json. "
+        "Exit status: 0 every variant computed and passing, 1 some variant fails its limit, "
+        "2 some variant could not be computed (or the input is wrong).",
+    )
+    batch.add_argument("base", metavar="BASE.yaml", help="the base case")
+    batch.add_argument(
+        "variants", metavar="VARIANTS.csv", help="variant table (.csv, or .yaml holding a list)"
+    )
+    batch.add_argument("--out", metavar="DIR", required=True, help="output folder")
+    batch.add_argument(
+        "--jobs", type=_positive_int, metavar="N", help="notes at a time (default: CPU cores)"
+    )
+    batch.add_argument(
+        "--timeout",
+        type=_positive_float,
+        default=600.0,
+        metavar="SECONDS",
+        help="time limit of one variant (default: 600)",
+    )
+    batch.add_argument(
+        "--force", action="store_true", help="recompute variants whose inputs are unchanged"
+    )
+    batch.add_argument(
+        "--scheduler", metavar="ADDRESS", help="run on this Dask distributed scheduler"
+    )
+    batch.add_argument("--template", metavar="NOTEBOOK", help="notebook template to use")
+    batch.add_argument("--show-code", action="store_true", help="keep code cells in the notes")
+    batch.add_argument("--no-progress", action="store_true", help="no progress bar")
+    batch.set_defaults(func=_batch)
     return parser
 
 

@@ -1,7 +1,9 @@
-"""``make demo``: render the demo scenario's calculation notes (and, when present, its batch).
+"""``make demo``: render the demo scenario's calculation notes, then its variant batch.
 
 The demo cases in ``demo_cases/`` describe an invented product line; every number in them is
-made up for demonstration. Notes go to ``demo_out/`` (or the folder given with ``--out``).
+made up for demonstration. Notes go to ``demo_out/`` (or the folder given with ``--out``); the
+batch of ``demo_cases/nb-series-variants.csv`` (variants of ``nb200-plate-fan.yaml``) goes to
+``demo_out/nb-series-batch/`` with its overview ``index.html``.
 """
 
 from __future__ import annotations
@@ -14,6 +16,8 @@ from finkit.errors import FinkitError
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO_CASES = ROOT / "demo_cases"
+BATCH_BASE = DEMO_CASES / "nb200-plate-fan.yaml"
+BATCH_VARIANTS = DEMO_CASES / "nb-series-variants.csv"
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -37,11 +41,33 @@ def main(argv: list[str] | None = None) -> int:
         print(f"  {path.name:28s} -> {note.html}")
     if failed:
         print(f"{failed} demo note(s) failed", file=sys.stderr)
-        return 2
     print(
         "Open the note.html files in a browser; each folder also holds note.ipynb and results.json."
     )
-    return 0
+
+    if BATCH_VARIANTS.is_file():
+        from finkit.batch import EXIT_NOT_COMPUTED, run_batch
+
+        batch_out = out / "nb-series-batch"
+        print(f"\nRendering the variant batch {BATCH_VARIANTS.name} into {batch_out}/")
+        try:
+            batch = run_batch(BATCH_BASE, BATCH_VARIANTS, batch_out, progress=sys.stderr.isatty())
+        except FinkitError as exc:
+            print(f"  the batch could not be run: {exc}", file=sys.stderr)
+            return 2
+        counts = batch.counts()
+        print(
+            f"  {len(batch.outcomes)} variants: {counts['pass']} pass, {counts['fail']} fail "
+            f"their limit (expected in the demo), {counts['error']} not computed; "
+            f"{counts['computed']} computed, {counts['reused']} reused, {batch.seconds:.1f} s"
+        )
+        for outcome in batch.outcomes:
+            if outcome.status == "error":
+                print(f"  {outcome.error}", file=sys.stderr)
+        print(f"  overview: {batch.index}")
+        if batch.exit_code == EXIT_NOT_COMPUTED:
+            failed += 1
+    return 2 if failed else 0
 
 
 if __name__ == "__main__":

@@ -647,25 +647,14 @@ def _css_string(value: str) -> str:
     return '"' + "".join(out) + '"'
 
 
-def render_html(nb: Any, *, show_code: bool = False, paper: str = "A4") -> str:
-    """Render an executed notebook to the HTML of a note (nbconvert, finkit page frame).
+@lru_cache(maxsize=2)
+def _html_exporter(show_code: bool) -> Any:
+    """The nbconvert exporter of a note, built once per process for each ``show_code``.
 
-    Parameters
-    ----------
-    nb : nbformat.NotebookNode
-        Executed notebook; ``nb.metadata["finkit"]`` (set by :func:`render_note`) feeds the
-        header, provenance and sign-off blocks. [-]
-    show_code : bool, optional
-        Show code cells' input (the cell tagged ``parameters`` is always left out). [-]
-    paper : {"A4", "letter"}, optional
-        Paper size of the printed note (CSS ``@page size``). [-]
-
-    Returns
-    -------
-    str
-        A complete HTML page with no script and no external resource. [-]
+    Building an exporter loads and compiles its Jinja templates (about 0.15 s); the exporter
+    keeps no state between ``from_notebook_node`` calls, so one is reused for every note (and
+    a warm parent process of :mod:`finkit.batch` hands it, compiled, to its children).
     """
-    _check_paper(paper)
     from nbconvert import HTMLExporter
     from nbconvert.preprocessors import TagRemovePreprocessor
     from traitlets.config import Config
@@ -689,6 +678,29 @@ def render_html(nb: Any, *, show_code: bool = False, paper: str = "A4") -> str:
     config.TagRemovePreprocessor.remove_all_outputs_tags = ("remove-output", "remove_output")
     exporter = HTMLExporter(config=config)
     exporter.register_preprocessor(TagRemovePreprocessor(config=config), enabled=True)
+    return exporter
+
+
+def render_html(nb: Any, *, show_code: bool = False, paper: str = "A4") -> str:
+    """Render an executed notebook to the HTML of a note (nbconvert, finkit page frame).
+
+    Parameters
+    ----------
+    nb : nbformat.NotebookNode
+        Executed notebook; ``nb.metadata["finkit"]`` (set by :func:`render_note`) feeds the
+        header, provenance and sign-off blocks. [-]
+    show_code : bool, optional
+        Show code cells' input (the cell tagged ``parameters`` is always left out). [-]
+    paper : {"A4", "letter"}, optional
+        Paper size of the printed note (CSS ``@page size``). [-]
+
+    Returns
+    -------
+    str
+        A complete HTML page with no script and no external resource. [-]
+    """
+    _check_paper(paper)
+    exporter = _html_exporter(bool(show_code))
 
     meta = nb.metadata.get("finkit", {})
     prov = meta.get("provenance", {})
@@ -768,6 +780,7 @@ def render_note(
     paper: str = "A4",
     validate: bool = True,
     results: Callable[[Any], Mapping[str, Any]] | None = None,
+    kernel_manager: Any = None,
 ) -> NoteOutput:
     """Execute the note template for a case and write a dated, self-contained HTML note.
 
@@ -803,6 +816,10 @@ def render_note(
     results : callable, optional
         ``results(validated_case) -> mapping`` written to ``results.json``; default
         ``finkit.model.run_case(case).to_json_dict()``. [-]
+    kernel_manager : jupyter_client.KernelManager, optional
+        Execute with this kernel manager (passed to papermill as ``km``) instead of starting
+        the kernel ``kernel_name``; :mod:`finkit.batch` passes an in-process kernel here.
+        Default: a new kernel process. [-]
 
     Returns
     -------
@@ -850,7 +867,12 @@ def render_note(
         raise NoteRenderError(
             f"results of case {prepared.case_id!r} are not strict JSON: {_one_line(exc)}"
         ) from None
-    kernel = kernel_name or ensure_kernel()
+    if kernel_manager is not None:
+        kernel = kernel_name or KERNEL_NAME
+        engine_kwargs: dict[str, Any] = {"km": kernel_manager}
+    else:
+        kernel = kernel_name or ensure_kernel()
+        engine_kwargs = {}
 
     import nbformat
     import papermill
@@ -871,6 +893,7 @@ def render_note(
                 progress_bar=False,
                 log_output=False,
                 cwd=str(scratch),
+                **engine_kwargs,
             )
         except Exception as exc:  # noqa: BLE001 - every failure is reported the same way
             message = _execution_failure(exc, executed_path, prepared, prov, folder, timeout)
