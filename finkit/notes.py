@@ -409,12 +409,27 @@ def ensure_kernel(name: str = KERNEL_NAME) -> str:
         f"python{sys.version_info[0]}",
         f"python{sys.version_info[0]}.{sys.version_info[1]}",
     }
-    if program not in bare and os.path.abspath(program) != os.path.abspath(sys.executable):
+    if program not in bare and not _same_interpreter(program, sys.executable):
         raise NotSupportedError(
             f"kernel {name!r} at {spec.resource_dir} runs {program}, not {sys.executable}; "
             f"remove it (jupyter kernelspec remove {name}) or pass kernel_name"
         )
     return name
+
+
+def _same_interpreter(program: str, executable: str) -> bool:
+    """True when two paths start the same Python of the same environment.
+
+    ``.venv/bin/python`` and ``.venv/bin/python3`` are links to one interpreter; a link to the
+    same interpreter from another environment's ``bin`` folder is a different environment.
+    """
+    a, b = os.path.abspath(program), os.path.abspath(executable)
+    if a == b:
+        return True
+    try:
+        return os.path.dirname(a) == os.path.dirname(b) and os.path.samefile(a, b)
+    except OSError:
+        return False
 
 
 # --------------------------------------------------------------------------------------------

@@ -29,6 +29,7 @@ from typing import Any
 __all__ = [
     "Fragment",
     "badge",
+    "bullets",
     "equation",
     "escape",
     "figure",
@@ -241,6 +242,37 @@ def key_value_table(
     """
     rows = list(items.items()) if isinstance(items, Mapping) else list(items)
     return html_table(rows, header=header, caption=caption, css_class="fk-kv")
+
+
+def bullets(
+    items: Iterable[Any], *, ordered: bool = False, css_class: str | None = "fk-list"
+) -> Fragment:
+    """A list of escaped items (a :class:`Fragment` item is kept as markup).
+
+    Parameters
+    ----------
+    items : iterable
+        List items: text (escaped) or fragments (kept), in order. [-]
+    ordered : bool, optional
+        A numbered list (``<ol>``) instead of bullets (``<ul>``). [-]
+    css_class : str or None, optional
+        CSS class of the list. [-]
+
+    Returns
+    -------
+    Fragment
+        ``<ul class="fk-list"><li>…</li>…</ul>`` (or ``<ol>``). [-]
+
+    Examples
+    --------
+    >>> str(bullets(["a < b", "c"]))
+    '<ul class="fk-list"><li>a &lt; b</li><li>c</li></ul>'
+    >>> str(bullets(["first"], ordered=True, css_class=None))
+    '<ol><li>first</li></ol>'
+    """
+    tag = "ol" if ordered else "ul"
+    body = "".join(f"<li>{escape(item)}</li>" for item in items)
+    return Fragment(f"<{tag}{_class_attr(css_class)}>{body}</{tag}>")
 
 
 def badge(status: bool | str | None, label: Any = None) -> Fragment:

@@ -670,10 +670,10 @@ def touch_temperature_check(
     status = "pass" if margin >= 0 else "fail"
     statement = (
         f"Hottest accessible surface ({hottest.replace('_', ' ')}) "
-        f"{temps[hottest] - ZERO_CELSIUS:.1f} degC at a {reference_ambient - ZERO_CELSIUS:.1f} "
-        f"degC reference ambient (air at the sink {inlet - ZERO_CELSIUS:.1f} degC, "
-        f"{float(sol.power):.3g} W), against the user's limit "
-        f"{limit_temperature - ZERO_CELSIUS:.1f} degC ({basis_text}): {status}. "
+        f"{temps[hottest] - ZERO_CELSIUS:.1f}\u00a0°C at a "
+        f"{reference_ambient - ZERO_CELSIUS:.1f}\u00a0°C reference ambient (air at the sink "
+        f"{inlet - ZERO_CELSIUS:.1f}\u00a0°C, {float(sol.power):.3g}\u00a0W), against the user's "
+        f"limit {limit_temperature - ZERO_CELSIUS:.1f}\u00a0°C ({basis_text}): {status}. "
         "The limit and its basis are the user's; finkit holds no table of touch limits."
     )
     return TouchResult(
