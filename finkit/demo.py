@@ -1,7 +1,8 @@
 """``make demo``: render the demo scenario's calculation notes, then its variant batch.
 
 The demo cases in ``demo_cases/`` describe an invented product line; every number in them is
-made up for demonstration. Notes go to ``demo_out/`` (or the folder given with ``--out``); the
+made up for demonstration. Notes go to ``demo_out/`` (or the folder given with ``--out``;
+``nb200-trade-study.yaml`` is rendered as a trade-study note); the
 batch of ``demo_cases/nb-series-variants.csv`` (variants of ``nb200-plate-fan.yaml``) goes to
 ``demo_out/nb-series-batch/`` with its overview ``index.html``.
 """
@@ -18,6 +19,7 @@ ROOT = Path(__file__).resolve().parent.parent
 DEMO_CASES = ROOT / "demo_cases"
 BATCH_BASE = DEMO_CASES / "nb200-plate-fan.yaml"
 BATCH_VARIANTS = DEMO_CASES / "nb-series-variants.csv"
+TRADE_STUDY = DEMO_CASES / "nb200-trade-study.yaml"
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -32,8 +34,17 @@ def main(argv: list[str] | None = None) -> int:
     failed = 0
     print(f"Rendering {len(cases)} demo notes into {out}/")
     for path in cases:
+        options = {}
+        if path.name == TRADE_STUDY.name:
+            # The trade-study demo gets the trade-study note (front plotted, design chosen).
+            from finkit import report_trade
+
+            options = {
+                "template": report_trade.template_path(),
+                "results": report_trade.results_json,
+            }
         try:
-            note = render_note(path, out)
+            note = render_note(path, out, **options)
         except FinkitError as exc:
             failed += 1
             print(f"  {path.name}: could not be rendered: {exc}", file=sys.stderr)
