@@ -977,15 +977,66 @@ def _execution_failure(
     return message
 
 
+#: The demo case each template opens with (its ``parameters`` cell), relative to the repository.
+TEMPLATE_DEFAULTS = {
+    "heat_sink_note.ipynb": "demo_cases/nb200-plate-fan.yaml",
+    "single_fin_note.ipynb": "demo_cases/nb-fin-study.yaml",
+    "trade_study_note.ipynb": "demo_cases/nb200-trade-study.yaml",
+    "explorer.ipynb": "demo_cases/nb200-plate-fan.yaml",
+}
+
+
+def template_default_case(template: str | os.PathLike) -> dict:
+    """The ``case`` dict a template's ``parameters`` cell defines (its default scenario)."""
+    import nbformat
+
+    nb = nbformat.read(Path(template), as_version=4)
+    cell = next(c for c in nb.cells if "parameters" in c.metadata.get("tags", []))
+    namespace: dict = {}
+    exec(compile(cell.source, str(template), "exec"), namespace)  # our own template file
+    return namespace["case"]
+
+
+def sync_template_defaults() -> list[Path]:
+    """Rewrite each template's default ``case`` from its demo file; returns those changed."""
+    import pprint
+
+    import nbformat
+    import yaml
+
+    changed = []
+    for name, demo in TEMPLATE_DEFAULTS.items():
+        path = _TEMPLATE_DIR / name
+        case = yaml.safe_load((_TEMPLATE_DIR.parent / demo).read_text(encoding="utf-8"))
+        if template_default_case(path) == case:
+            continue
+        nb = nbformat.read(path, as_version=4)
+        cell = next(c for c in nb.cells if "parameters" in c.metadata.get("tags", []))
+        head, _, rest = cell.source.partition("case = ")
+        tail = rest[rest.index("\nnote_time") :] if "\nnote_time" in rest else ""
+        cell.source = head + "case = " + pprint.pformat(case, sort_dicts=False, width=96) + tail
+        atomic_write(path, nbformat.writes(nb))
+        changed.append(path)
+    return changed
+
+
 def main(argv: list[str] | None = None) -> int:
-    """``python -m finkit.notes --ensure-kernel``: register the Jupyter kernel (used by make)."""
+    """``python -m finkit.notes``: register the kernel (make), or sync template defaults."""
     import argparse
 
     parser = argparse.ArgumentParser(prog="python -m finkit.notes")
     parser.add_argument("--ensure-kernel", action="store_true", help="install the finkit kernel")
+    parser.add_argument(
+        "--sync-defaults",
+        action="store_true",
+        help="rewrite each template's default case from its demo case file",
+    )
     args = parser.parse_args(argv)
     if args.ensure_kernel:
         print(f"Jupyter kernel {ensure_kernel()!r} ready for {sys.executable}")
+    if args.sync_defaults:
+        for path in sync_template_defaults():
+            print(f"updated {path}")
     return 0
 
 

@@ -297,3 +297,12 @@ def test_show_code_keeps_the_code_so_the_hidden_code_check_can_fail(tmp_path):
     html = output.html.read_text(encoding="utf-8")
     assert re.search(r'class="[^"]*\b(highlight|jp-Editor)\b', html)
     assert "title_block" in re.sub(r"<[^>]+>", "", html)  # the code text, highlighted
+
+
+@pytest.mark.parametrize("template", sorted(notes.TEMPLATE_DEFAULTS))
+def test_template_default_case_is_its_demo_case(template):
+    # Opening a template in JupyterLab and running it unchanged shows the demo scenario; when a
+    # demo file changes, run `python -m finkit.notes --sync-defaults`.
+    demo = ROOT / notes.TEMPLATE_DEFAULTS[template]
+    expected = yaml.safe_load(demo.read_text(encoding="utf-8"))
+    assert notes.template_default_case(ROOT / "templates" / template) == expected
