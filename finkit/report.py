@@ -30,6 +30,8 @@ from finkit import present
 from finkit.units import format_quantity, from_si
 
 __all__ = [
+    "figure_calibration",
+    "plot_calibration",
     "COLOURS",
     "airflow_table",
     "assumptions",
@@ -297,7 +299,8 @@ def _caption(result, key: str, text: str) -> str:
 def _figure_plan(result) -> list[str]:
     if not _is_heat_sink(result):
         return ["fin_tip_profiles", "fin_efficiency_vs_length", "fin_profiles_study"]
-    plan = [*_uncertainty_figure_keys(result), "fin_profile", "allowable_vs_inlet", "vs_airflow"]
+    plan = ["calibration"] if getattr(_review_of(result), "calibration", None) else []
+    plan += [*_uncertainty_figure_keys(result), "fin_profile", "allowable_vs_inlet", "vs_airflow"]
     if not _is_natural(result):
         plan.append("fan_system")
     plan.append("resistance_breakdown")
@@ -2631,6 +2634,72 @@ def _calibration_section(result) -> list[Any]:
             ),
         ),
     ]
+
+
+def plot_calibration(result):
+    """Measured against predicted temperatures of the case's test points, before and after.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case with measurements. [-]
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        Predicted [°C] against measured [°C] for the model as stated and with the fitted
+        multiplier, with the line of perfect agreement. [-]
+    """
+    cal = _review_of(result).calibration
+    measured = from_si(np.asarray(cal.measured, float), *_T)
+    stated = from_si(np.asarray(cal.predicted_uncalibrated, float), *_T)
+    fitted = from_si(np.asarray(cal.predicted, float), *_T)
+    low = float(min(measured.min(), stated.min(), fitted.min())) - 3.0
+    high = float(max(measured.max(), stated.max(), fitted.max())) + 3.0
+    with _style():
+        fig, axes = _figure((5.2, 4.2))
+        ax = axes[0, 0]
+        ax.plot(
+            [low, high],
+            [low, high],
+            color=COLOURS["muted"],
+            linewidth=1.0,
+            label="Perfect agreement",
+        )
+        ax.plot(measured, stated, "o", color=COLOURS["secondary"], label="Model as stated")
+        ax.plot(
+            measured,
+            fitted,
+            "s",
+            color=COLOURS["primary"],
+            label=f"Model with multiplier {cal.multiplier:.3f} (empirical)",
+        )
+        for name, x, y in zip(cal.names, measured, fitted, strict=True):
+            ax.annotate(name, (x, y), textcoords="offset points", xytext=(6, -10), fontsize=8)
+        ax.set_xlim(low, high)
+        ax.set_ylim(low, high)
+        ax.set_aspect("equal")
+        ax.set_xlabel("Measured temperature [°C]")
+        ax.set_ylabel("Predicted temperature [°C]")
+        ax.grid(True, alpha=0.3)
+        ax.legend(loc="upper left")
+    return fig
+
+
+def figure_calibration(result) -> present.Fragment:
+    """:func:`plot_calibration` embedded with its caption (empty without measurements)."""
+    if getattr(_review_of(result), "calibration", None) is None:
+        return present.text("")
+    return present.figure(
+        plot_calibration(result),
+        caption=_caption(
+            result,
+            "calibration",
+            "Measured against predicted temperatures at the case's test points, with the model "
+            "as stated and with the fitted multiplier. The multiplier is empirical: it absorbs "
+            "every difference between the model and this test set-up, not only the correlation.",
+        ),
+    )
 
 
 def _spread_section(result) -> list[Any]:

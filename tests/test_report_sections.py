@@ -20,12 +20,15 @@ import copy
 import html
 import math
 import re
+from pathlib import Path
 
 import numpy as np
 import pytest
 
 from finkit import present, report
 from finkit.constants import ZERO_CELSIUS
+
+ROOT_DEMO = Path(__file__).resolve().parent.parent / "demo_cases"
 
 TITLE = {"project": "Fixture project", "part": "Fixture sink", "revision": "T", "prepared_by": "T"}
 
@@ -207,7 +210,8 @@ def test_template_places_the_section_after_the_review_checks():
     path = Path(__file__).resolve().parent.parent / "templates"
     cells = nbformat.read(path / notes.TEMPLATES_BY_KIND["heat-sink"], as_version=4).cells
     sources = [c.source.strip() for c in cells]
-    start = sources.index("report.review_section(result)")
+    start = sources.index("report.review_section(result)") + 1
+    assert sources[start] == "report.figure_calibration(result)"
     assert sources[start + 1].startswith("## 7. Uncertainty and model form")
     assert sources[start + 2 : start + 6] == [
         "report.uncertainty_section(result)",
@@ -440,3 +444,21 @@ def test_touch_statement_prints_degrees_celsius():
     statement = report.run(case).review.touch.statement
     assert "degC" not in statement
     assert "\u00a0°C reference ambient" in statement
+
+
+def test_calibration_figure_shows_measured_against_predicted():
+    # The plotted points are the calibration's own numbers (measured vs predicted, in °C).
+    from finkit.case import load_case
+    from finkit.model import run_case
+    from finkit.report import plot_calibration
+
+    result = run_case(load_case(ROOT_DEMO / "nb200-plate-fan.yaml"))
+    cal = result.review.calibration
+    fig = plot_calibration(result)
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "Measured temperature [°C]"
+    assert ax.get_ylabel() == "Predicted temperature [°C]"
+    lines = {line.get_label(): line for line in ax.get_lines()}
+    fitted = next(v for k, v in lines.items() if k.startswith("Model with multiplier"))
+    np.testing.assert_allclose(fitted.get_xdata(), np.asarray(cal.measured) - 273.15)
+    np.testing.assert_allclose(fitted.get_ydata(), np.asarray(cal.predicted) - 273.15)
