@@ -9,7 +9,8 @@ README = Path(__file__).resolve().parent.parent / "README.md"
 
 
 def test_readme_example_runs():
-    code = re.search(r"```python\n(.*?)```", README.read_text(encoding="utf-8"), re.S).group(1)
+    blocks = re.findall(r"```python\n(.*?)```", README.read_text(encoding="utf-8"), re.S)
+    code = next(b for b in blocks if "solve_allowable_power" in b)
     namespace: dict = {}
     exec(compile(code.replace("print(", "(lambda *a: None)("), "README.md", "exec"), namespace)
     hot, cap = namespace["hot"], namespace["cap"]
