@@ -13,6 +13,10 @@ class InputError(FinkitError, ValueError):
     """A value given by the user is not allowed (wrong unit, out of range, unknown key)."""
 
 
+class PropertyRangeError(InputError):
+    """A state outside the range of a property table (e.g. air hotter than the table)."""
+
+
 class GeometryError(InputError):
     """A geometry that cannot exist (fins that do not fit, overlapping pins, zero gap)."""
 

@@ -31,7 +31,7 @@ from scipy.optimize import least_squares
 from finkit.airflow import FanCurve, power_law_pressure_drop
 from finkit.constants import ZERO_CELSIUS
 from finkit.correlations import forced, natural
-from finkit.errors import InputError
+from finkit.errors import FinkitError, InputError
 from finkit.geometry import PlateFinSink
 from finkit.model import SinkInputs, allowable, solve
 from finkit.properties.air import air_properties
@@ -536,7 +536,14 @@ def run_scenarios(
             f"scenarios: names must be unique and not 'nominal' (got {', '.join(repeated)})"
         )
     rows = [_row("nominal", nominal_description, inputs)]
-    rows += [_row(s.name, s.description, apply_scenario(inputs, s, fan_block)) for s in scenarios]
+    for s in scenarios:
+        try:
+            rows.append(_row(s.name, s.description, apply_scenario(inputs, s, fan_block)))
+        except FinkitError as exc:
+            if hasattr(exc, "errors"):
+                raise  # an error made of several lines keeps its own form
+            # Same error, told which scenario it belongs to.
+            raise type(exc)(f"scenarios[{s.name}]: {exc}") from None
     governing = int(np.argmin([r.margin for r in rows]))
     rows[governing] = replace(rows[governing], is_governing=True)
     return ScenarioTable(rows=tuple(rows), governing=rows[governing].name)

@@ -32,6 +32,9 @@ Every function here takes SI floats or numpy arrays that broadcast together and 
 
 from __future__ import annotations
 
+import contextlib
+import dataclasses
+import hashlib
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Literal
@@ -47,7 +50,7 @@ from finkit.airflow import (
     split_bypass,
 )
 from finkit.correlations import forced, natural
-from finkit.errors import InputError, SolverError
+from finkit.errors import InputError, PropertyRangeError, SolverError
 from finkit.fins import analytic as fins
 from finkit.fins.analytic import one_dimensional_fin_warnings
 from finkit.geometry import PinFinSink, PlateFinSink
@@ -338,6 +341,19 @@ def _above_base(node: str, below_source, source: HeatSource):
     return above
 
 
+@contextlib.contextmanager
+def _property_range_context():
+    """Say which inputs drive a solve out of the air-property table, in one line."""
+    try:
+        yield
+    except PropertyRangeError as exc:
+        raise PropertyRangeError(
+            "the solved air temperatures leave finkit's air-property range (200 to 500 K): "
+            "the sink runs far too hot or the air too cold for this case; check source.power, "
+            f"air.inlet_temperature, air.flow and the sink's size ({exc})"
+        ) from None
+
+
 def _check_node(node: str) -> None:
     if node not in NODES:
         raise InputError(f"limit node: got {node!r}; allowed: {', '.join(NODES)}")
@@ -355,6 +371,14 @@ class _Airflow:
     bypass_volume_flow: np.ndarray
     approach_velocity: np.ndarray
     pressure_drop: np.ndarray
+    warnings: tuple[str, ...] = ()
+
+
+STALL_WARNING = (
+    "air.flow.fan: the operating point lies on a rising (stall) part of the fan curve, where fan "
+    "data are unreliable and the flow may be unstable; choose a fan or system that runs on the "
+    "falling part (common practice, no source)"
+)
 
 
 def _sink_frontal_area(geometry) -> np.ndarray:
@@ -366,6 +390,13 @@ def _sink_frontal_area(geometry) -> np.ndarray:
 
 def _fin_height(geometry) -> np.ndarray:
     return geometry.fin_height if isinstance(geometry, PlateFinSink) else geometry.pin_height
+
+
+def _is_shrouded(bypass: Bypass | None):
+    """True (per design) where a shroud touches the fin tips: no bypass, or no top gap."""
+    if bypass is None:
+        return True
+    return np.asarray(bypass.top_gap, float) <= 0
 
 
 def _bypass_geometry(geometry, bypass: Bypass | None):
@@ -474,7 +505,7 @@ def solve_airflow(
     """
     inlet = air_properties(air.inlet_temperature, air.pressure)
     rho, mu = inlet.density, inlet.dynamic_viscosity
-    shrouded = bypass is None or np.all(np.asarray(bypass.top_gap) <= 0)
+    shrouded = _is_shrouded(bypass)
     gaps = _bypass_geometry(geometry, bypass)
 
     def dp_sink(q):
@@ -496,6 +527,7 @@ def solve_airflow(
         system = dp_sink
 
     fan_with_bypass = None
+    in_stall = False
     if isinstance(flow, FanDriven) and gaps is not None:
         fan_with_bypass = operating_point_with_bypass(
             flow.fan,
@@ -505,6 +537,7 @@ def solve_airflow(
             density=rho,
             pressure_factor=options.fan_pressure_factor,
         )
+        in_stall = np.any(fan_with_bypass.is_in_stall_region)
         converged = np.asarray(fan_with_bypass.is_converged)
         if not np.all(converged):
             raise SolverError(
@@ -521,6 +554,7 @@ def solve_airflow(
             return dp / factor
 
         point = operating_point(flow.fan, fan_system, density=rho)
+        in_stall = np.any(point.is_in_stall_region)
         if not np.all(point.is_converged):
             raise SolverError(
                 "air.flow.fan: the fan curve does not cross the system curve for "
@@ -552,7 +586,8 @@ def solve_airflow(
             np.asarray(q_bypass, float),
             np.asarray(approach, float),
             np.asarray(dp, float),
-        )
+        ),
+        warnings=(STALL_WARNING,) if in_stall else (),
     )
 
 
@@ -812,6 +847,25 @@ def _assemble(
 
 
 _AIRFLOW_CACHE: list[tuple[tuple, _Airflow]] = []
+
+
+def _fingerprint(value):
+    """A hashable summary of the inputs' content: arrays by shape and bytes, dataclasses by
+    their fields, callables by identity (they are held by the inputs while cached)."""
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        return (type(value).__name__,) + tuple(
+            _fingerprint(getattr(value, f.name)) for f in dataclasses.fields(value)
+        )
+    if isinstance(value, (tuple, list)):
+        return tuple(_fingerprint(v) for v in value)
+    if isinstance(value, np.ndarray) or isinstance(value, np.generic):
+        a = np.ascontiguousarray(value)
+        return (a.shape, a.dtype.str, hashlib.sha1(a.tobytes()).hexdigest())
+    if callable(value):
+        return ("callable", id(value))
+    return value
+
+
 _AIRFLOW_CACHE_SIZE = 8
 
 
@@ -820,13 +874,12 @@ def _cached_airflow(geometry, flow, air, bypass, options) -> _Airflow:
 
     The airflow does not depend on the power, so the two design questions asked of the same
     inputs (temperatures, then allowable power at the limit and at the limit less the margin)
-    share one solution. Entries are matched by object identity and hold references to their
-    keys, so an identity can never be re-used by another object while it is cached; the input
-    dataclasses are frozen.
+    share one solution. Entries are matched on the content of the inputs (array values, not
+    object identity), so an array changed in place is never answered from the cache.
     """
-    key = (geometry, flow, air, bypass, options)
+    key = _fingerprint((geometry, flow, air, bypass, options))
     for cached_key, value in _AIRFLOW_CACHE:
-        if all(a is b for a, b in zip(cached_key, key, strict=True)):
+        if cached_key == key:
             return value
     value = solve_airflow(geometry, flow, air, bypass, options)
     _AIRFLOW_CACHE.insert(0, (key, value))
@@ -840,7 +893,7 @@ def _solve_forced(
     """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``."""
     airflow = _cached_airflow(geometry, flow, air, bypass, options)
     inlet = air_properties(air.inlet_temperature, air.pressure)
-    is_shrouded = bypass is None or np.all(np.asarray(bypass.top_gap) <= 0)
+    is_shrouded = _is_shrouded(bypass)
     t_in = np.asarray(air.inlet_temperature, float)
     base_excess = np.zeros_like(t_in)
     for _ in range(FILM_ITERATIONS):
@@ -877,7 +930,7 @@ def _solve_forced(
         airflow=airflow,
         channel_velocity=conv.channel_velocity,
         reynolds=conv.reynolds_number,
-        warnings=conv.warnings,
+        warnings=conv.warnings + airflow.warnings,
     )
 
 
@@ -897,6 +950,7 @@ class _NaturalState:
     tip_ratio: np.ndarray
     rayleigh: np.ndarray
     rayleigh_length: np.ndarray
+    surface_conductance: np.ndarray  # convection + radiation conductance of the surface [W/K]
     optimum_spacing: np.ndarray
     elenbaas: np.ndarray
 
@@ -986,23 +1040,29 @@ def _natural_heat_rate(
         tip_ratio=1.0 / np.cosh(mL),
         rayleigh=np.asarray(nat.rayleigh_spacing, float),
         rayleigh_length=np.asarray(nat.rayleigh_length, float),
+        surface_conductance=(conductance + np.asarray(rad.conductance, float))
+        / options.sink_resistance_factor,
         optimum_spacing=np.asarray(nat.optimum_spacing, float),
         elenbaas=np.asarray(nat.elenbaas, float),
     )
 
 
-def _find_base_excess(residual, shape, inlet_temperature, upper=400.0):
-    """Vectorised bracketed root of ``residual(base_excess)`` on (0, upper] K.
+def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperature, upper=400.0):
+    """Vectorised bracketed root of ``residual(base_excess)`` [K].
 
-    The bracket also keeps the film temperature inside the air-property table (≤ 495 K).
+    The bracket starts below both the inlet air and the surroundings (with cold surroundings a
+    lightly loaded sink settles below the inlet air, radiation taking more than the power) and
+    ends where the film temperature would leave the air-property table (≤ 495 K).
     """
-    lo = np.full(shape, 1e-6)
+    below = np.minimum(np.asarray(surroundings_temperature, float) - inlet_temperature, 0.0)
+    lo = np.broadcast_to(below - 1e-6, shape).copy()
     hi = np.broadcast_to(np.minimum(upper, 2.0 * (495.0 - inlet_temperature)), shape).copy()
     res = bracketed_root(residual, lo, hi, xatol=1e-9, xrtol=1e-10)
     if not np.all(res.is_converged):
         raise SolverError(
-            "natural convection: no base temperature between the inlet air and "
-            f"{float(np.min(hi)):.0f} K above it satisfies the heat balance"
+            "natural convection: no base temperature up to "
+            f"{float(np.min(hi)):.0f} K above the inlet air satisfies the heat balance; "
+            "check source.power against the sink's size"
         )
     return res.x
 
@@ -1015,6 +1075,7 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
             "(no published pin-fin array method in finkit)"
         )
     t_in = np.asarray(air.inlet_temperature, float)
+    t_sur = t_in if air.surroundings_temperature is None else air.surroundings_temperature
     plate_area = np.multiply(geometry.base_width, geometry.base_length)
 
     def rest(sink_resistance, node):
@@ -1059,20 +1120,23 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
         node, t_limit = limit
 
         def residual(theta):
+            # The spreading boundary is the surface's own conductance (always positive);
+            # theta / power is not, where radiation from warm surroundings comes in.
             state = _natural_heat_rate(geometry, material, air, theta, options)
-            r_sink = theta / state.power
-            return t_in + theta + state.power * rest(r_sink, node) - t_limit
+            above = rest(1.0 / state.surface_conductance, node)
+            return t_in + theta + np.maximum(state.power, 0.0) * above - t_limit
 
-    theta = _find_base_excess(residual, shape, t_in)
+    theta = _find_base_excess(residual, shape, t_in, t_sur)
     state = _natural_heat_rate(geometry, material, air, theta, options)
     q = state.power
-    r_sink = theta / q
+    with np.errstate(divide="ignore", invalid="ignore"):
+        r_sink = np.where(q != 0, theta / q, 1.0 / state.surface_conductance)
     spread = spreading_resistance_song_lee_au(
         source.footprint_area,
         plate_area,
         geometry.base_thickness,
         material.thermal_conductivity,
-        r_sink,
+        1.0 / state.surface_conductance,
     )
     warnings = list(
         natural.plate_fin_natural_warnings(state.elenbaas, rayleigh_length=state.rayleigh_length)
@@ -1140,9 +1204,15 @@ def solve_temperatures(
     SinkSolution
         Node temperatures [K], resistances [K W⁻¹], flows, efficiencies and warnings.
     """
-    if isinstance(flow, NaturalConvection):
-        return _solve_natural(geometry, material, source, air, flow, options, power=source.power)[0]
-    return _solve_forced(geometry, material, source, air, flow, bypass, options, power=source.power)
+    with _property_range_context():
+        if isinstance(flow, NaturalConvection):
+            state = _solve_natural(
+                geometry, material, source, air, flow, options, power=source.power
+            )
+            return state[0]
+        return _solve_forced(
+            geometry, material, source, air, flow, bypass, options, power=source.power
+        )
 
 
 def solve_allowable_power(
@@ -1172,5 +1242,7 @@ def solve_allowable_power(
                 "limit.temperature: must be above the inlet air temperature for natural "
                 "convection (no heat can leave otherwise)"
             )
-        return _solve_natural(geometry, material, source, air, flow, options, limit=limit)[0]
-    return _solve_forced(geometry, material, source, air, flow, bypass, options, limit=limit)
+        with _property_range_context():
+            return _solve_natural(geometry, material, source, air, flow, options, limit=limit)[0]
+    with _property_range_context():
+        return _solve_forced(geometry, material, source, air, flow, bypass, options, limit=limit)

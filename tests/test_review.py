@@ -24,7 +24,7 @@ from finkit.airflow import power_law_pressure_drop
 from finkit.case import load_case
 from finkit.correlations import natural
 from finkit.errors import InputError
-from finkit.model import allowable, sink_inputs, solve
+from finkit.model import allowable, run_case, sink_inputs, solve
 from finkit.properties.air import air_properties
 from finkit.review import (
     JUNCTION_TO_CASE_FLAG,
@@ -771,3 +771,12 @@ def test_overlay_is_only_a_test_helper():
     ns = types.SimpleNamespace(a=1, b=types.SimpleNamespace(c=2))
     o = with_fields(ns, b={"d": 3})
     assert (o.a, o.b.c, o.b.d) == (1, 2, 3)
+
+
+def test_a_scenario_that_cannot_be_solved_is_named_in_the_error():
+    from finkit.errors import PropertyRangeError
+
+    data = raw("nb200-plate-fan")
+    data["scenarios"][0]["inlet_temperature"] = "300 degC"  # beyond the air-property table
+    with pytest.raises(PropertyRangeError, match=r"^scenarios\[hot-day\]: .*air-property range"):
+        run_case(load_case(data))

@@ -241,3 +241,76 @@ def test_sweeps_are_vectorised_and_agree_with_single_points():
         ZERO_CELSIUS + 105.0,
     )
     assert grid.power.shape == (2, 4)
+
+
+@pytest.mark.identity
+@pytest.mark.parametrize("walls_c", [25.0, 44.0, 46.0, 70.0])
+@pytest.mark.parametrize("power", [0.5, 15.0])
+def test_natural_convection_with_surroundings_warmer_or_colder_than_the_air(walls_c, power):
+    # Radiation exchange with walls at another temperature than the air: the heat balance
+    # still closes (power = convection + net radiation) and the two design questions invert.
+    air = Air(AIR.inlet_temperature, 101325.0, surroundings_temperature=ZERO_CELSIUS + walls_c)
+    source = HeatSource(power, 0.025, 0.025, 0.35, 0.05)
+    sol = solve_temperatures(PLATE, ALUMINIUM, source, air, NaturalConvection())
+    assert sol.convection_heat_rate + sol.radiation_heat_rate == pytest.approx(power, rel=1e-6)
+    limit = ZERO_CELSIUS + 100.0
+    allowed = solve_allowable_power(
+        PLATE, ALUMINIUM, source, air, NaturalConvection(), "junction", limit
+    )
+    assert allowed.junction_temperature == pytest.approx(limit, abs=1e-6)
+    again = solve_temperatures(
+        PLATE,
+        ALUMINIUM,
+        HeatSource(float(allowed.power), 0.025, 0.025, 0.35, 0.05),
+        air,
+        NaturalConvection(),
+    )
+    assert again.junction_temperature == pytest.approx(limit, abs=0.01)
+    # Warmer walls leave less power for the same limit (first law on the radiation exchange).
+    if walls_c > 45.0:
+        cooler = solve_allowable_power(
+            PLATE, ALUMINIUM, source, AIR, NaturalConvection(), "junction", limit
+        )
+        assert allowed.power < cooler.power
+
+
+@pytest.mark.shape
+def test_bypass_arrays_solve_each_design_on_its_own_terms():
+    # A batch mixing shrouded and open-top designs gives each design its own answer.
+    side, top = np.array([0.0, 0.002, 0.0]), np.array([0.0, 0.0, 0.002])
+    many = solve_temperatures(PLATE, ALUMINIUM, SOURCE, AIR, FanDriven(FAN), Bypass(side, top))
+    for i in range(3):
+        bypass = None if side[i] == top[i] == 0 else Bypass(side[i], top[i])
+        one = solve_temperatures(PLATE, ALUMINIUM, SOURCE, AIR, FanDriven(FAN), bypass)
+        assert many.junction_temperature[i] == pytest.approx(float(one.junction_temperature))
+
+
+@pytest.mark.identity
+def test_operating_point_in_the_fan_stall_region_is_warned():
+    # Common practice, no source: a fan should run on the falling part of its curve.
+    # An invented curve with a dip (stall) between 1 and 2 l/s, and a dense sink that crosses it
+    # there.
+    fan = FanCurve(np.array([0, 1, 2, 3, 4, 5]) * 1e-3, [60.0, 50.0, 55.0, 40.0, 20.0, 0.0])
+    dense = PlateFinSink(0.08, 0.06, 0.005, 55, 0.0008, 0.03)
+    sol = solve_temperatures(dense, ALUMINIUM, SOURCE, AIR, FanDriven(fan))
+    assert any("stall" in w for w in sol.warnings)
+    sparse = PlateFinSink(0.08, 0.06, 0.005, 30, 0.0008, 0.03)
+    sol = solve_temperatures(sparse, ALUMINIUM, SOURCE, AIR, FanDriven(fan))
+    assert not any("stall" in w for w in sol.warnings)
+
+
+@pytest.mark.identity
+def test_an_array_changed_in_place_is_not_answered_from_the_airflow_cache():
+    heights = np.array([0.03, 0.03])
+    geometry = PlateFinSink(0.08, 0.06, 0.005, 14, 0.0012, heights)
+    solve_temperatures(geometry, ALUMINIUM, SOURCE, AIR, FanDriven(FAN))
+    heights[1] = 0.01
+    changed = solve_temperatures(geometry, ALUMINIUM, SOURCE, AIR, FanDriven(FAN))
+    fresh = solve_temperatures(
+        PlateFinSink(0.08, 0.06, 0.005, 14, 0.0012, np.array([0.03, 0.01])),
+        ALUMINIUM,
+        SOURCE,
+        AIR,
+        FanDriven(FAN),
+    )
+    np.testing.assert_allclose(changed.volume_flow, fresh.volume_flow)

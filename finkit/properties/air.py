@@ -18,7 +18,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from finkit.errors import InputError
+from finkit.errors import InputError, PropertyRangeError
 from finkit.validity import ValidityRange
 
 __all__ = [
@@ -109,7 +109,7 @@ def _require_in(name: str, values: np.ndarray, low: float, high: float, unit: st
     """Raise InputError naming ``name`` if any value is outside [low, high] or not finite."""
     bad = ~((values >= low) & (values <= high))  # NaN counts as bad
     if np.any(bad):
-        raise InputError(
+        raise PropertyRangeError(
             f"{name} = {_shown(values[bad])} {unit} is outside the allowed range "
             f"{low:.6g} to {high:.6g} {unit}{hint}"
         )
