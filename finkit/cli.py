@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from importlib import resources
 from pathlib import Path
@@ -172,6 +173,9 @@ def _lab(args) -> int:
     command = [sys.executable, "-m", "jupyterlab", f"--ServerApp.root_dir={target.resolve()}"]
     if args.no_browser:
         command.append("--no-browser")
+    if hasattr(os, "geteuid") and os.geteuid() == 0:
+        # Containers and CI machines often run as root, which JupyterLab refuses by default.
+        command.append("--allow-root")
     return subprocess.call(command)
 
 
