@@ -414,7 +414,27 @@ def ensure_kernel(name: str = KERNEL_NAME) -> str:
             f"kernel {name!r} at {spec.resource_dir} runs {program}, not {sys.executable}; "
             f"remove it (jupyter kernelspec remove {name}) or pass kernel_name"
         )
+    _quiet_kernel(spec)
     return name
+
+
+_KERNEL_LOG_LEVEL = "--IPKernelApp.log_level=ERROR"
+
+
+def _quiet_kernel(spec) -> None:
+    """Let a kernelspec inside this environment log errors only.
+
+    Each kernel otherwise prints jupyter's notice that it talks over local TCP without
+    encryption, once per note, which buries the lines a user should read. Kernel errors still
+    show, and a failing cell is reported by :func:`render_note` either way.
+    """
+    path = Path(spec.resource_dir) / "kernel.json"
+    inside = Path(sys.prefix).resolve() in path.resolve().parents
+    if not inside or _KERNEL_LOG_LEVEL in spec.argv or not path.is_file():
+        return
+    data = json.loads(path.read_text(encoding="utf-8"))
+    data["argv"] = [*data["argv"], _KERNEL_LOG_LEVEL]
+    atomic_write(path, json.dumps(data, indent=1))
 
 
 def _same_interpreter(program: str, executable: str) -> bool:
