@@ -426,7 +426,10 @@ def run_case(case) -> CaseResult:
     }
     warnings = list(sol.warnings)
     if at_margin is not None:
-        warnings += [w for w in at_margin.warnings if w not in warnings]
+        # The allowable-power state repeats most messages with other numbers: keep only those
+        # about a quantity the stated-power state did not already flag.
+        seen = {w.split(" = ")[0] for w in warnings}
+        warnings += [w for w in at_margin.warnings if w.split(" = ")[0] not in seen]
     warnings += [w for w in review.flags if w not in warnings]
     return CaseResult(
         case=case,

@@ -617,3 +617,17 @@ def test_pin_flow_errors_and_warnings():
         0.002, **{**PIN_ARGS, "transverse_pitch": 0.012}, arrangement="staggered"
     )
     assert any("S_T/D" in m for m in forced.pin_fin_flow_warnings(wide))
+
+
+@pytest.mark.identity
+def test_results_near_a_correlation_branch_are_flagged():
+    # Zukauskas' table changes its constants at Re_D,max = 1000 (both arrangements); a result
+    # just below it is flagged, one far from every boundary is not.
+    from finkit.correlations.forced import ZUKAUSKAS_BRANCHES, branch_warnings
+
+    near = branch_warnings("Zukauskas pin bank", "Re_D,max", [950.0], (1000.0,), "C and m change")
+    assert len(near) == 1 and "within 10%" in near[0]
+    far = branch_warnings(
+        "Zukauskas pin bank", "Re_D,max", [3000.0], ZUKAUSKAS_BRANCHES["inline"], "x"
+    )
+    assert far == []

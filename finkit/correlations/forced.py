@@ -1464,6 +1464,53 @@ def _masked(values, mask):
     return np.where(mask, _as_float(values), np.nan)
 
 
+#: Reynolds numbers at which a published piecewise correlation changes its constants:
+#: Zukauskas' table (Bejan 2013 / ht docs, Table F1 of methods.md f1) by arrangement, and the
+#: switch from the Teertstra composite to the VDI plane-gap correlation on Re_2b.
+ZUKAUSKAS_BRANCHES = {"inline": (100.0, 1000.0, 2.0e5), "staggered": (500.0, 1000.0, 2.0e5)}
+CHANNEL_SWITCH_REYNOLDS = LAMINAR_LIMIT_REYNOLDS
+
+#: Relative distance from a branch boundary within which a result is flagged.
+BRANCH_BAND = 0.1
+
+
+def branch_warnings(method: str, quantity: str, values, boundaries, what: str) -> list[str]:
+    """A warning when a result lies near a boundary where a correlation changes its branch.
+
+    Results on either side of such a boundary differ by a step that belongs to the published
+    correlation, not to the design; a reviewer should read the result with that step in mind.
+
+    Parameters
+    ----------
+    method, quantity : str
+        Names as printed, e.g. ``"Zukauskas pin bank"``, ``"Re_D,max"`` [-].
+    values : array_like
+        The quantity for each design [-].
+    boundaries : sequence of float
+        Branch boundaries of the correlation [-].
+    what : str
+        What changes at the boundary, for the message [-].
+
+    Returns
+    -------
+    list of str
+        One message per boundary that a value lies within ``BRANCH_BAND`` of.
+    """
+    v = np.asarray(values, dtype=float)
+    v = v[np.isfinite(v)]
+    out = []
+    for b in boundaries:
+        near = v[np.abs(v / b - 1.0) <= BRANCH_BAND]
+        if near.size:
+            out.append(
+                f"{method}: {quantity} = {near.min():.4g}"
+                + (f" to {near.max():.4g}" if near.max() != near.min() else "")
+                + f" is within {BRANCH_BAND:.0%} of {b:.4g}, where {what}; the result may step "
+                "there by several per cent (a feature of the published correlation)"
+            )
+    return out
+
+
 def plate_fin_flow_warnings(flow: PlateChannelFlow) -> list[str]:
     """Validity messages for a :class:`PlateChannelFlow` (each range checked where it applies).
 
@@ -1486,6 +1533,15 @@ def plate_fin_flow_warnings(flow: PlateChannelFlow) -> list[str]:
     out += check_range(
         PLATE_CHANNEL_FRICTION_REYNOLDS, _masked(re_dh, re_dh < TURBULENT_LIMIT_REYNOLDS)
     )
+    if flow.method == "teertstra":
+        out += branch_warnings(
+            "plate channel",
+            "Re_2b",
+            2.0 * _as_float(flow.reynolds_spacing),
+            (CHANNEL_SWITCH_REYNOLDS,),
+            "h changes from the Teertstra composite (inlet-referenced) to the VDI plane-gap "
+            "correlation (bulk-referenced)",
+        )
     return out
 
 
@@ -1505,6 +1561,13 @@ def pin_fin_flow_warnings(flow: PinBankFlow) -> list[str]:
     """
     out = check_range(ZUKAUSKAS_REYNOLDS, flow.reynolds_max)
     out += check_range(ZUKAUSKAS_PRANDTL, flow.prandtl)
+    out += branch_warnings(
+        "Zukauskas pin bank",
+        "Re_D,max",
+        flow.reynolds_max,
+        ZUKAUSKAS_BRANCHES[str(flow.arrangement)],
+        "the tabulated constants C and m change",
+    )
     out += check_range(GADDIS_GNIELINSKI_REYNOLDS, flow.reynolds_max)
     out += check_range(GADDIS_GNIELINSKI_ROW_COUNT, flow.row_count)
     if flow.arrangement == "inline":
