@@ -64,3 +64,12 @@ def test_single_fin_limit_is_checked_against_the_base():
     assert result.status == "fail"
     data["limit"]["required_margin"] = "2 K"
     assert run_case(load_case(data)).status == "pass"
+
+
+def test_a_bad_fan_table_is_reported_on_the_case_fields():
+    from finkit.errors import InputError
+
+    data = yaml.safe_load((DEMO / "nb200-plate-fan.yaml").read_text(encoding="utf-8"))
+    data["air"]["flow"]["fan"]["pressure"][-1] = "0.01 inH2O"  # does not reach free delivery
+    with pytest.raises(InputError, match=r"^air\.flow\.fan\.pressure\[7\]"):
+        run_case(load_case(data))
