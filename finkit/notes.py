@@ -516,11 +516,15 @@ def provenance(
     -------
     dict
         ``finkit_version``, ``template``, ``case_id``, ``kind``, ``inputs_sha256``,
-        ``note_time`` and ``libraries`` (python, numpy, scipy, CoolProp, pint, matplotlib,
-        papermill, nbconvert versions). [-]
+        ``note_time``, ``libraries`` (python, numpy, scipy, CoolProp, pint, matplotlib,
+        papermill, nbconvert versions) and ``signoff`` (the names of the title block's
+        prepared by, checked by and approved by, for the sign-off table; empty when not
+        given). [-]
     """
     from finkit import __version__
 
+    block = _field(case, "title_block") or {}
+    signoff = {role: _field(block, role) or "" for role in _SIGNOFF_ROLES}
     return {
         "finkit_version": __version__,
         "template": template,
@@ -529,7 +533,11 @@ def provenance(
         "inputs_sha256": inputs_sha256(case),
         "note_time": note_time if note_time is not None else _note_time(None),
         "libraries": dict(_library_versions()),
+        "signoff": {role: str(name) for role, name in signoff.items()},
     }
+
+
+_SIGNOFF_ROLES = ("prepared_by", "checked_by", "approved_by")
 
 
 def _field(case: Any, name: str) -> Any:

@@ -576,3 +576,22 @@ def test_printed_note_uses_the_paper_size(simple_note, chromium, tmp_path, paper
         assert width == pytest.approx(size[0], abs=1.5) and height == pytest.approx(
             size[1], abs=1.5
         )
+
+
+def test_sign_off_table_carries_the_title_block_names_escaped():
+    import nbformat
+
+    from finkit import notes
+
+    case = {
+        "case_id": "sig",
+        "kind": "heat-sink",
+        "title_block": {"prepared_by": "A. <b>Bold</b>", "checked_by": "C. Checker"},
+    }
+    nb = nbformat.v4.new_notebook()
+    nb.cells.append(nbformat.v4.new_markdown_cell("Body."))
+    nb.metadata["finkit"] = {"status": "complete", "provenance": notes.provenance(case)}
+    html = notes.render_html(nb)
+    assert "<td>A. &lt;b&gt;Bold&lt;/b&gt;</td>" in html
+    assert "<td>C. Checker</td>" in html
+    assert "<b>Bold</b>" not in html
