@@ -68,12 +68,18 @@ RESULT_UNITS = {
     "radiation_fraction": "1",
     "fin_heat_rate": "W",
     "mass": "kg",
+    "power": "W",
+    "inlet_temperature": "degC",
 }
 
 
 @dataclass(frozen=True)
 class SinkInputs:
-    """The physics inputs of a heat-sink case, in SI (see :mod:`finkit.sink`)."""
+    """The physics inputs of a heat-sink case, in SI (see :mod:`finkit.sink`).
+
+    ``altitude`` [m] is the site altitude the air pressure was taken from (standard
+    atmosphere); relative scenarios (``altitude_increase``) start from it.
+    """
 
     geometry: PlateFinSink | PinFinSink
     material: SinkMaterial
@@ -85,32 +91,53 @@ class SinkInputs:
     limit_temperature: float
     required_margin: float
     options: ModelOptions = DEFAULT_OPTIONS
+    altitude: float = 0.0
+
+
+#: Version of the layout of ``results.json`` (2: a ``governing`` block, a ``conditions`` list,
+#: headline ``results`` of the governing condition and ``nominal`` kept beside them).
+RESULTS_SCHEMA_VERSION = 2
+
+
+def _json_results(values: dict[str, float | None]) -> dict[str, dict[str, Any]]:
+    return {
+        name: {"value": None if value is None else float(value), "unit": RESULT_UNITS.get(name, "")}
+        for name, value in values.items()
+    }
 
 
 @dataclass(frozen=True)
 class CaseResult:
     """Everything a note, a batch or another tool needs from one case.
 
+    A heat-sink case is solved at every operating condition: the nominal one (the case as
+    stated) and each scenario. The **governing** condition is the one with the least margin;
+    the headline ``status`` and ``results`` are its values, and every output leads with it.
+
     Attributes
     ----------
     case : finkit.case.Case
         The validated case.
     status : str
-        ``"pass"`` when the limit node stays at least ``required_margin`` below the limit.
+        ``"pass"`` when the limit node of the governing condition stays at least
+        ``required_margin`` below the limit.
     results : dict
-        Name -> value in the unit of :data:`RESULT_UNITS` (None where not applicable).
+        Name -> value of the governing condition, in the unit of :data:`RESULT_UNITS`
+        (temperatures in °C; None where not applicable).
     warnings : tuple of str
-        Validity ranges left, 1-D fin validity, anything out of the ordinary.
+        Validity ranges left, 1-D fin validity, scenarios milder than nominal, a calibration
+        that reads low, input flags.
     solution : SinkSolution or None
-        The heat-sink state at the stated power (heat-sink cases).
+        The heat-sink state of the nominal condition at the stated power.
     allowable : SinkSolution or None
-        The heat-sink state at the allowable power (limit less the required margin).
+        The nominal state at the allowable power (limit less the required margin).
     inputs : SinkInputs or None
-        The physics inputs used.
+        The nominal physics inputs.
     review : ReviewResult or None
-        Scenarios, touch check, calibration, correlation spread and input flags.
+        The conditions (``review.scenarios``), touch check, calibration, correlation spread and
+        input flags.
     uncertainty : UncertaintyResult or None
-        Monte Carlo over the case's tolerances and the tornado data (when it has tolerances).
+        Monte Carlo and tornado over the case's tolerances, at the governing condition.
     """
 
     case: Any
@@ -126,29 +153,46 @@ class CaseResult:
         default_factory=lambda: _dt.datetime.now(_dt.UTC).astimezone().isoformat(timespec="seconds")
     )
 
+    @property
+    def conditions(self):
+        """The :class:`finkit.review.ScenarioTable` of every condition (None for single fins)."""
+        return None if self.review is None else self.review.scenarios
+
+    @property
+    def governing(self):
+        """The governing (least-margin) condition, a :class:`finkit.review.ScenarioRow`."""
+        return None if self.conditions is None else self.conditions.governing_row
+
+    @property
+    def nominal(self):
+        """The nominal condition (the case as stated), a :class:`finkit.review.ScenarioRow`."""
+        return None if self.conditions is None else self.conditions.rows[0]
+
     def to_json_dict(self) -> dict:
-        """The content of ``results.json`` (see the calculation-notes issue)."""
+        """The content of ``results.json`` (layout :data:`RESULTS_SCHEMA_VERSION`)."""
         from finkit.case import case_inputs_sha256
 
-        extra = {} if self.review is None else {"review": self.review.to_json_dict()}
-        if self.uncertainty is not None:
-            extra["uncertainty"] = self.uncertainty.to_json_dict()
-        return {
-            **extra,
+        out: dict[str, Any] = {
+            "schema_version": RESULTS_SCHEMA_VERSION,
             "case": self.case.case_id,
             "status": self.status,
             "created": self.created,
             "inputs_sha256": case_inputs_sha256(self.case),
             "finkit_version": finkit.__version__,
-            "warnings": list(self.warnings),
-            "results": {
-                name: {
-                    "value": None if value is None else float(value),
-                    "unit": RESULT_UNITS.get(name, ""),
-                }
-                for name, value in self.results.items()
-            },
         }
+        table = self.conditions
+        if table is not None:
+            out["governing"] = table.governing_summary()
+        out["warnings"] = list(self.warnings)
+        out["results"] = _json_results(self.results)
+        if table is not None:
+            out["nominal"] = _json_results(table.rows[0].results)
+            out["conditions"] = [row.to_json_dict() for row in table.rows]
+        if self.review is not None:
+            out["review"] = self.review.to_json_dict()
+        if self.uncertainty is not None:
+            out["uncertainty"] = self.uncertainty.to_json_dict()
+        return out
 
 
 @dataclass(frozen=True)
@@ -158,15 +202,20 @@ class ReviewResult:
     Attributes
     ----------
     scenarios : finkit.review.ScenarioTable or None
-        Nominal plus every named scenario, the governing (least-margin) one marked.
+        Every operating condition: nominal plus each named scenario, the governing
+        (least-margin) one marked.
     touch : finkit.review.TouchResult or None
         Hottest accessible surface at the user's reference ambient against the user's limit.
     calibration : finkit.review.Calibration or None
         Empirical multiplier fitted to the case's measurements (applied if the case says so).
     spread : finkit.review.CorrelationSpread or None
-        The headline results with each accepted alternative correlation.
+        The governing condition's results with each accepted alternative correlation.
     flags : tuple of str
         Input sanity flags (also among the result's warnings).
+    calibrated_governing : dict or None
+        With measurements: the governing condition solved the other way round (with the fitted
+        multiplier when the case does not apply it, without it when it does), results in the
+        units of :data:`RESULT_UNITS`.
     """
 
     scenarios: Any = None
@@ -174,23 +223,11 @@ class ReviewResult:
     calibration: Any = None
     spread: Any = None
     flags: tuple[str, ...] = ()
+    calibrated_governing: dict[str, float | None] | None = None
 
     def to_json_dict(self) -> dict:
         """Summary for ``results.json`` (temperatures in °C, differences in K)."""
         out: dict[str, Any] = {"flags": list(self.flags)}
-        if self.scenarios is not None:
-            out["governing_scenario"] = self.scenarios.governing
-            out["scenarios"] = [
-                {
-                    "name": r.name,
-                    "limit_node_temperature": r.node_temperature - ZERO_CELSIUS,
-                    "temperature_margin": r.margin,
-                    "allowable_power": r.allowable_power,
-                    "status": r.status,
-                    "is_governing": r.is_governing,
-                }
-                for r in self.scenarios.rows
-            ]
         if self.touch is not None:
             out["touch"] = {
                 "hottest_surface": self.touch.hottest_surface,
@@ -199,12 +236,21 @@ class ReviewResult:
                 "status": self.touch.status,
             }
         if self.calibration is not None:
+            c = self.calibration
             out["calibration"] = {
-                "target": self.calibration.target,
-                "multiplier": self.calibration.multiplier,
-                "standard_error": self.calibration.standard_error,
-                "is_applied": self.calibration.is_applied,
+                "target": c.target,
+                "multiplier": c.multiplier,
+                "standard_error": c.standard_error,
+                "is_applied": c.is_applied,
+                "mean_underprediction": {"value": c.mean_underprediction, "unit": "K"},
+                "measurement_uncertainty": {"value": c.measurement_uncertainty, "unit": "K"},
+                "reads_low": c.reads_low,
             }
+            if self.calibrated_governing is not None:
+                out["calibration"]["governing_other"] = {
+                    "is_calibrated": not c.is_applied,
+                    "results": _json_results(self.calibrated_governing),
+                }
         if self.spread is not None:
             out["correlation_spread"] = [
                 {
@@ -227,14 +273,17 @@ class UncertaintyResult:
         Samples, percentiles and the probability of exceeding the limit.
     tornado : finkit.uncertainty.Tornado
         Limit-node temperature at the low and high end of each toleranced input.
+    condition : str
+        The operating condition both were run at (the governing one).
     """
 
     monte_carlo: Any
     tornado: Any
+    condition: str = "nominal"
 
     def to_json_dict(self) -> dict:
         """Summary for ``results.json`` (temperatures in °C, probabilities as fractions)."""
-        out = {}
+        out: dict[str, Any] = {"condition": self.condition}
         for name, value in self.monte_carlo.summary().items():
             is_temperature = name.endswith("_temperature") and not name.startswith("std")
             out[name] = float(value) - ZERO_CELSIUS if is_temperature else float(value)
@@ -314,6 +363,7 @@ def sink_inputs(case) -> SinkInputs:
         options=ModelOptions(
             heat_transfer_coefficient_override=s.heat_transfer_coefficient_override
         ),
+        altitude=float(a.altitude),
     )
 
 
@@ -379,29 +429,56 @@ def allowable(inputs: SinkInputs, margin: float | None = None, **replacements) -
     )
 
 
-def run_case(case) -> CaseResult:
-    """Solve a validated case and check it against its limit."""
-    if getattr(case, "kind", "heat-sink") == "single-fin":
-        return _run_single_fin(case)
-    inputs = sink_inputs(case)
-    inputs, calibration = _calibrated(case, inputs)
+@dataclass(frozen=True)
+class ConditionState:
+    """One operating condition solved both ways (see :func:`solve_condition`).
+
+    Attributes
+    ----------
+    results : dict
+        Name -> value in the unit of :data:`RESULT_UNITS` (temperatures in °C).
+    solution : SinkSolution
+        State at the stated power.
+    allowable : SinkSolution or None
+        State at the allowable power (limit node at the limit less the required margin); None
+        when the inlet air already leaves no margin.
+    status : str
+        ``pass`` when the margin is at least the required margin, else ``fail``.
+    warnings : tuple of str
+        Validity messages of both states (one per quantity).
+    """
+
+    results: dict[str, float | None]
+    solution: SinkSolution
+    allowable: SinkSolution | None
+    status: str
+    warnings: tuple[str, ...]
+
+
+def solve_condition(inputs: SinkInputs) -> ConditionState:
+    """Solve one operating condition: temperatures, margin, allowable power, power at the limit.
+
+    The one place where a condition's results are computed; the nominal case and every scenario
+    go through it (:func:`finkit.review.run_scenarios`).
+    """
     sol = solve(inputs)
-    t_in = float(np.asarray(inputs.air.inlet_temperature))
+    t_in = float(np.max(inputs.air.inlet_temperature))
     usable_limit = inputs.limit_temperature - inputs.required_margin
-    if usable_limit > t_in:
+    if usable_limit > t_in + 1e-6:
         at_margin = allowable(inputs)
         allowable_power = float(at_margin.power)
     else:
         at_margin, allowable_power = None, 0.0
-    at_limit = allowable(inputs, margin=0.0)
+    if inputs.limit_temperature > t_in + 1e-6:
+        power_at_limit = float(allowable(inputs, margin=0.0).power)
+    else:
+        power_at_limit = 0.0
     node_t = float(sol.node_temperature(inputs.limit_node))
     margin = inputs.limit_temperature - node_t
-    status = "pass" if margin >= inputs.required_margin else "fail"
-    review = _review(case, inputs, calibration)
-    if review.scenarios is not None:
-        status = review.scenarios.status
     is_natural = isinstance(inputs.flow, NaturalConvection)
     total_q = float(sol.convection_heat_rate + sol.radiation_heat_rate)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        bypass_fraction = float(sol.bypass_volume_flow / sol.volume_flow)
     results = {
         "sink_resistance": float(sol.sink_resistance),
         "total_resistance": float(sol.total_resistance),
@@ -413,13 +490,13 @@ def run_case(case) -> CaseResult:
         "limit_node_temperature": node_t - ZERO_CELSIUS,
         "limit_temperature": inputs.limit_temperature - ZERO_CELSIUS,
         "allowable_power": allowable_power,
-        "power_at_limit": float(at_limit.power),
+        "power_at_limit": power_at_limit,
         "temperature_margin": margin,
         "required_margin": inputs.required_margin,
         "pressure_drop": None if is_natural else float(sol.pressure_drop),
         "volume_flow": None if is_natural else float(sol.volume_flow),
         "sink_volume_flow": None if is_natural else float(sol.sink_volume_flow),
-        "bypass_fraction": None if is_natural else float(sol.bypass_volume_flow / sol.volume_flow),
+        "bypass_fraction": None if is_natural else bypass_fraction,
         "approach_velocity": None if is_natural else float(sol.approach_velocity),
         "fin_efficiency": float(sol.fin_efficiency),
         "surface_efficiency": float(sol.surface_efficiency),
@@ -429,6 +506,8 @@ def run_case(case) -> CaseResult:
         "radiation_fraction": float(sol.radiation_heat_rate) / total_q if total_q > 0 else 0.0,
         "fin_heat_rate": None,
         "mass": float(inputs.geometry.mass(inputs.material.density)),
+        "power": float(np.max(sol.power)),
+        "inlet_temperature": _c(sol.inlet_air_temperature),
     }
     warnings = list(sol.warnings)
     if at_margin is not None:
@@ -436,15 +515,56 @@ def run_case(case) -> CaseResult:
         # about a quantity the stated-power state did not already flag.
         seen = {w.split(" = ")[0] for w in warnings}
         warnings += [w for w in at_margin.warnings if w.split(" = ")[0] not in seen]
-    warnings += [w for w in review.flags if w not in warnings]
-    return CaseResult(
-        case=case,
-        status=status,
+    return ConditionState(
         results=results,
-        warnings=tuple(warnings),
-        uncertainty=_uncertainty(case, inputs),
         solution=sol,
         allowable=at_margin,
+        status="pass" if margin >= inputs.required_margin else "fail",
+        warnings=tuple(warnings),
+    )
+
+
+def _merged_warnings(table, flags) -> list[str]:
+    """Warnings of every condition, governing first, one per quantity; others labelled."""
+    gov = table.governing_row
+    ordered = [gov] + [r for r in table.rows if r is not gov]
+    out: list[str] = []
+    seen: set[str] = set()
+    for row in ordered:
+        for w in row.warnings:
+            key = w.split(" = ")[0]
+            if key in seen:
+                continue
+            seen.add(key)
+            out.append(w if row is gov or row.name == "nominal" else f"[{row.name}] {w}")
+    out += list(table.notices)
+    out += [w for w in flags if w not in out]
+    return out
+
+
+def run_case(case) -> CaseResult:
+    """Solve a validated case at every operating condition and check it against its limit."""
+    if getattr(case, "kind", "heat-sink") == "single-fin":
+        return _run_single_fin(case)
+    from finkit.review import run_scenarios, scenarios_from_blocks
+
+    inputs = sink_inputs(case)
+    inputs, calibration = _calibrated(case, inputs)
+    scenarios = scenarios_from_blocks(case.scenarios) if case.scenarios else ()
+    table = run_scenarios(inputs, scenarios, case.air.flow.fan)
+    governing, nominal = table.governing_row, table.rows[0]
+    review = _review(case, inputs, governing.inputs, table, calibration)
+    warnings = _merged_warnings(table, review.flags)
+    if calibration is not None and calibration.reads_low:
+        warnings.insert(0, calibration.warning)
+    return CaseResult(
+        case=case,
+        status=governing.status,
+        results=dict(governing.results),
+        warnings=tuple(warnings),
+        uncertainty=_uncertainty(case, governing),
+        solution=nominal.solution,
+        allowable=nominal.allowable,
         inputs=inputs,
         review=review,
     )
@@ -457,14 +577,20 @@ def _calibrated(case, inputs: SinkInputs):
     from finkit.review import apply_calibration, calibrate, measurements_from_blocks
 
     target = case.calibration.target if case.calibration is not None else "heat_transfer"
-    fit = calibrate(inputs, measurements_from_blocks(case.measurements), target)
+    noise = case.calibration.measurement_uncertainty if case.calibration is not None else 1.0
+    fit = calibrate(inputs, measurements_from_blocks(case.measurements), target, noise)
     if case.calibration is not None and case.calibration.apply:
         return apply_calibration(inputs, fit), replace(fit, is_applied=True)
     return inputs, fit
 
 
-def _uncertainty(case, inputs: SinkInputs) -> UncertaintyResult | None:
-    """Monte Carlo and tornado over the case's ``tolerances`` block (None without one)."""
+def _uncertainty(case, governing) -> UncertaintyResult | None:
+    """Monte Carlo and tornado over the case's ``tolerances`` block, at the governing condition.
+
+    The tolerances are spread about the governing condition's inputs (a scenario's inlet air,
+    flow and power), so the probability of exceeding the limit is the one that matters for
+    sign-off. None without a tolerances block.
+    """
     if case.tolerances is None:
         return None
     from finkit.explore_schema import MonteCarloBlock, to_tolerances
@@ -472,27 +598,26 @@ def _uncertainty(case, inputs: SinkInputs) -> UncertaintyResult | None:
 
     settings = case.monte_carlo or MonteCarloBlock()
     tolerances = to_tolerances(case.tolerances)
+    inputs = governing.inputs
     return UncertaintyResult(
         monte_carlo=monte_carlo(
             inputs, tolerances, settings.samples, settings.seed, settings.sampling
         ),
         tornado=sensitivity(inputs, tolerances, settings.tornado_coverage),
+        condition=governing.name,
     )
 
 
-def _review(case, inputs: SinkInputs, calibration) -> ReviewResult:
-    """Scenarios, touch check, correlation spread and sanity flags of a heat-sink case."""
+def _review(case, inputs: SinkInputs, governing_inputs, table, calibration) -> ReviewResult:
+    """Touch check, correlation spread, calibration cross-solve and flags of a heat-sink case."""
     from finkit.review import (
+        apply_calibration,
         correlation_spread,
-        run_scenarios,
         sanity_flags,
-        scenarios_from_blocks,
         touch_temperature_check,
+        uncalibrated,
     )
 
-    table = None
-    if case.scenarios:
-        table = run_scenarios(inputs, scenarios_from_blocks(case.scenarios), case.air.flow.fan)
     touch = None
     if case.touch is not None:
         t = case.touch
@@ -508,12 +633,23 @@ def _review(case, inputs: SinkInputs, calibration) -> ReviewResult:
             inlet_preheat=preheat,
             power=t.power,
         )
+    other = None
+    if calibration is not None:
+        # The governing condition the other way round: calibrated when the case does not apply
+        # the multiplier, uncalibrated when it does, so the headline can show both.
+        flipped = (
+            uncalibrated(governing_inputs, calibration)
+            if calibration.is_applied
+            else apply_calibration(governing_inputs, calibration)
+        )
+        other = solve_condition(flipped).results
     return ReviewResult(
         scenarios=table,
         touch=touch,
         calibration=calibration,
-        spread=correlation_spread(inputs),
+        spread=correlation_spread(governing_inputs),
         flags=tuple(sanity_flags(case, inputs)),
+        calibrated_governing=other,
     )
 
 
@@ -582,7 +718,8 @@ def swept_inputs(inputs: SinkInputs, name: str, values) -> SinkInputs:
         return replace(inputs, air=air)
     if name == "altitude":
         p = standard_atmosphere(values).pressure
-        return replace(inputs, air=replace(inputs.air, pressure=np.asarray(p, float)))
+        air = replace(inputs.air, pressure=np.asarray(p, float))
+        return replace(inputs, air=air, altitude=values)
     if name == "airflow":
         if isinstance(inputs.flow, NaturalConvection):
             raise InputError("sweeps: 'airflow' does not apply to natural convection")

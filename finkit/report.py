@@ -19,6 +19,7 @@ imported when the first figure is drawn, not when this module is imported.
 from __future__ import annotations
 
 import datetime as _dt
+import functools
 import math
 from collections.abc import Iterable, Mapping
 from contextlib import contextmanager
@@ -122,6 +123,30 @@ _NODE_NAMES = {"junction": "Junction", "case": "Case", "base": "Base under the s
 
 # --------------------------------------------------------------------------------------------
 # Small helpers (formatting, markup from escaped parts)
+
+
+def at_governing(result):
+    """The result seen at its governing condition (inputs and states of that condition).
+
+    Tables and figures of the results section describe the condition the verdict is about;
+    a case without scenarios is its own governing condition.
+    """
+    from dataclasses import replace
+
+    gov = getattr(result, "governing", None)
+    if gov is None or gov.solution is None or result.solution is gov.solution:
+        return result
+    return replace(result, inputs=gov.inputs, solution=gov.solution, allowable=gov.allowable)
+
+
+def _at_governing(func):
+    """Decorator: call ``func`` with the result seen at its governing condition."""
+
+    @functools.wraps(func)
+    def wrapper(result, *args, **kwargs):
+        return func(at_governing(result), *args, **kwargs)
+
+    return wrapper
 
 
 def run(case: Any):
@@ -1037,6 +1062,7 @@ def warnings_section(result) -> present.Fragment:
 # Results tables (heat sink)
 
 
+@_at_governing
 def headline(result) -> present.Fragment:
     """Pass or fail against the limit, the margin and the allowable power.
 
@@ -1136,6 +1162,7 @@ def _scenario_table_of(result):
     return table if table is not None and getattr(table, "rows", None) else None
 
 
+@_at_governing
 def node_table(result) -> present.Fragment:
     """Node temperatures from the junction down to the inlet air, at the stated power.
 
@@ -1175,6 +1202,7 @@ def node_table(result) -> present.Fragment:
     )
 
 
+@_at_governing
 def resistance_table(result) -> present.Fragment:
     """The resistance chain, its temperature differences at the stated power and shares.
 
@@ -1225,6 +1253,7 @@ def resistance_table(result) -> present.Fragment:
     )
 
 
+@_at_governing
 def airflow_table(result) -> present.Fragment:
     """Air side at the stated power: flows, velocities, pressure drop, h and efficiencies.
 
@@ -1298,6 +1327,7 @@ def airflow_table(result) -> present.Fragment:
 # Figures (heat sink)
 
 
+@_at_governing
 def plot_fin_profile(result):
     """Temperature along one fin of the array at the stated power (matplotlib Figure).
 
@@ -1394,10 +1424,12 @@ def _inlet_range(result) -> np.ndarray:
     t_in = _f(inputs.air.inlet_temperature)
     usable = inputs.limit_temperature - inputs.required_margin
     low = min(t_in - 25.0, usable - 30.0)
-    high = max(inputs.limit_temperature + 3.0, t_in + 3.0)
+    # Up to the limit itself: beyond it no power is allowable and the curve says nothing.
+    high = max(inputs.limit_temperature, t_in + 1.0)
     return np.linspace(low, high, 57)
 
 
+@_at_governing
 def plot_allowable_vs_inlet(result):
     """Allowable power against the inlet air temperature (matplotlib Figure).
 
@@ -1496,6 +1528,7 @@ def _h_range(result) -> np.ndarray:
     return np.geomspace(h0 / 2.0, h0 * 2.0, 41)
 
 
+@_at_governing
 def plot_vs_airflow(result):
     """Allowable power and fin efficiency against airflow (forced) or h (natural).
 
@@ -1596,6 +1629,7 @@ def figure_vs_airflow(result) -> present.Fragment:
     return present.figure(plot_vs_airflow(result), caption=_caption(result, "vs_airflow", text))
 
 
+@_at_governing
 def plot_fan_system(result):
     """Fan and system curves with the operating point, or the system curve for a given flow.
 
@@ -1713,6 +1747,7 @@ def figure_fan_system(result) -> present.Fragment:
     return present.figure(plot_fan_system(result), caption=_caption(result, "fan_system", text))
 
 
+@_at_governing
 def plot_resistance_breakdown(result):
     """Temperature budget: rises across each resistance, at the stated and allowable power.
 
@@ -1857,6 +1892,7 @@ def _sweep_values(result, name: str) -> tuple[np.ndarray, float]:
     raise ValueError(f"sweep {name!r} is not drawn by finkit.report")
 
 
+@_at_governing
 def plot_sweep(result, name: str):
     """Limit-node temperature at the stated power and allowable power against one input.
 

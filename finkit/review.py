@@ -35,7 +35,7 @@ from finkit.errors import FinkitError, InputError
 from finkit.geometry import PlateFinSink
 from finkit.model import SinkInputs, allowable, solve
 from finkit.properties.air import air_properties
-from finkit.properties.atmosphere import standard_atmosphere
+from finkit.properties.atmosphere import ALTITUDE_RANGE, standard_atmosphere
 from finkit.review_schema import MEASUREMENT_NODES, TOUCH_SURFACES
 from finkit.sink import (
     NATURAL_CHANNEL_METHODS,
@@ -64,12 +64,16 @@ __all__ = [
     "apply_calibration",
     "apply_scenario",
     "calibrate",
+    "combine_scenarios",
     "correlation_spread",
     "measurements_from_blocks",
+    "milder_than_nominal",
     "run_scenarios",
     "sanity_flags",
+    "scenario_changes",
     "scenarios_from_blocks",
     "touch_temperature_check",
+    "uncalibrated",
 ]
 
 EMPIRICAL_STATEMENT = (
@@ -130,6 +134,14 @@ class Scenario:
         Altitude; pressure from the standard atmosphere (ISO 2533) [m].
     power : float or None
         Source power [W].
+    inlet_temperature_rise : float or None
+        Inlet air above the nominal inlet (relative) [K].
+    altitude_increase : float or None
+        Altitude above the nominal altitude (relative) [m].
+    power_factor : float or None
+        Multiplier on the nominal power (relative) [-].
+    combines : tuple of str
+        Names of the scenarios merged into this one (:func:`combine_scenarios`) [-].
     fan_speed_ratio : float or None
         Fan speed over rated speed, fan laws ``Q ∝ N``, ``dp ∝ N²`` [-].
     fan_pressure_factor : float or None
@@ -169,40 +181,163 @@ class Scenario:
     fouling_resistance: float | None = None
     deposit_thickness: float | None = None
     deposit_conductivity: float | None = None
+    inlet_temperature_rise: float | None = None
+    altitude_increase: float | None = None
+    power_factor: float | None = None
+    combines: tuple[str, ...] = ()
+
+
+#: How :func:`combine_scenarios` merges each field of the parts.
+_ADDED = ("inlet_temperature_rise", "altitude_increase", "fouling_resistance", "deposit_thickness")
+_MULTIPLIED = (
+    "power_factor",
+    "fan_speed_ratio",
+    "fan_pressure_factor",
+    "pressure_drop_factor",
+    "heat_transfer_factor",
+)
+_ABSOLUTE = (
+    "inlet_temperature",
+    "surroundings_temperature",
+    "altitude",
+    "power",
+    "stopped_fan_resistance",
+    "filter",
+    "deposit_conductivity",
+)
+
+
+def combine_scenarios(name: str, description: str, parts) -> Scenario:
+    """One scenario that applies all of ``parts`` together (e.g. hot day + one fan failed).
+
+    Relative rises, fouling resistances and deposit thicknesses add; factors multiply; failed
+    fans add up; an absolute value (inlet temperature, altitude, power, filter, ...) may be set
+    by one part only, or by several with the same value.
+
+    Raises
+    ------
+    InputError
+        Two parts set the same absolute value differently; one line naming both.
+    """
+    merged: dict[str, Any] = {}
+    owner: dict[str, str] = {}
+    for part in parts:
+        for n in _ADDED:
+            v = getattr(part, n)
+            if v is not None:
+                merged[n] = merged.get(n, 0.0) + v
+        for n in _MULTIPLIED:
+            v = getattr(part, n)
+            if v is not None:
+                merged[n] = merged.get(n, 1.0) * v
+        for n in _ABSOLUTE:
+            v = getattr(part, n)
+            if v is None:
+                continue
+            if n in merged and merged[n] != v:
+                raise InputError(
+                    f"scenarios[{name}].combines: '{owner[n]}' and '{part.name}' both set {n} "
+                    "to different values; combine scenarios that change different conditions"
+                )
+            merged[n], owner[n] = v, part.name
+        merged["failed_fans"] = merged.get("failed_fans", 0) + part.failed_fans
+    names = tuple(p.name for p in parts)
+    text = description or "together: " + " + ".join(names)
+    return Scenario(name=name, description=text, combines=names, **merged)
 
 
 def scenarios_from_blocks(blocks) -> tuple[Scenario, ...]:
-    """:class:`Scenario` objects from validated ``scenarios:`` blocks (``ScenarioBlock``)."""
-    out = []
+    """:class:`Scenario` objects from validated ``scenarios:`` blocks (``ScenarioBlock``).
+
+    A block with ``combines`` becomes one merged scenario (:func:`combine_scenarios`) of the
+    scenarios it names and its own changes.
+    """
+    own = {}
     for b in blocks:
         leak = b.stopped_fan_leak
-        out.append(
-            Scenario(
-                name=b.name,
-                description=b.description or "",
-                inlet_temperature=b.inlet_temperature,
-                surroundings_temperature=b.surroundings_temperature,
-                altitude=b.altitude,
-                power=b.power,
-                fan_speed_ratio=b.fan_speed_ratio,
-                fan_pressure_factor=b.fan_pressure_factor,
-                failed_fans=b.failed_fans or 0,
-                stopped_fan_resistance=(
-                    None if leak is None else leak.pressure_drop / leak.volume_flow**2
-                ),
-                filter=(
-                    None
-                    if b.filter is None
-                    else FilterLoss(b.filter.volume_flow, b.filter.pressure_drop, b.filter.exponent)
-                ),
-                pressure_drop_factor=b.pressure_drop_factor,
-                heat_transfer_factor=b.heat_transfer_factor,
-                fouling_resistance=b.fouling_resistance,
-                deposit_thickness=b.deposit_thickness,
-                deposit_conductivity=b.deposit_conductivity,
-            )
+        own[b.name] = Scenario(
+            name=b.name,
+            description=b.description or "",
+            inlet_temperature=b.inlet_temperature,
+            inlet_temperature_rise=b.inlet_temperature_rise,
+            surroundings_temperature=b.surroundings_temperature,
+            altitude=b.altitude,
+            altitude_increase=b.altitude_increase,
+            power=b.power,
+            power_factor=b.power_factor,
+            fan_speed_ratio=b.fan_speed_ratio,
+            fan_pressure_factor=b.fan_pressure_factor,
+            failed_fans=b.failed_fans or 0,
+            stopped_fan_resistance=(
+                None if leak is None else leak.pressure_drop / leak.volume_flow**2
+            ),
+            filter=(
+                None
+                if b.filter is None
+                else FilterLoss(b.filter.volume_flow, b.filter.pressure_drop, b.filter.exponent)
+            ),
+            pressure_drop_factor=b.pressure_drop_factor,
+            heat_transfer_factor=b.heat_transfer_factor,
+            fouling_resistance=b.fouling_resistance,
+            deposit_thickness=b.deposit_thickness,
+            deposit_conductivity=b.deposit_conductivity,
         )
+    out = []
+    for b in blocks:
+        combines = tuple(getattr(b, "combines", ()) or ())
+        if not combines:
+            out.append(own[b.name])
+            continue
+        parts = [own[n] for n in combines]
+        if any(
+            getattr(own[b.name], n) not in (None, 0, ())
+            for n in (*_ADDED, *_MULTIPLIED, *_ABSOLUTE, "failed_fans")
+        ):
+            parts.append(own[b.name])
+        out.append(combine_scenarios(b.name, b.description or "", parts))
     return tuple(out)
+
+
+def milder_than_nominal(inputs: SinkInputs, scenario: Scenario) -> list[str]:
+    """Warnings for a scenario that is no harsher than the nominal case on some condition.
+
+    A scenario written with absolute values does not follow a variant: a variant installed at
+    3000 m makes a "2500 m" scenario milder than its own nominal. Each condition the scenario
+    sets to a cooler inlet, a lower altitude, less power, more fan or less loss than nominal is
+    named (equal values too: that scenario checks nothing beyond the nominal).
+    """
+    out = []
+    where = f"scenario {scenario.name}"
+    t_nom = float(np.max(inputs.air.inlet_temperature))
+    if scenario.inlet_temperature is not None and scenario.inlet_temperature <= t_nom + 1e-9:
+        out.append(
+            f"{where}: inlet air {scenario.inlet_temperature - ZERO_CELSIUS:.1f} degC is not "
+            f"above this variant's nominal {t_nom - ZERO_CELSIUS:.1f} degC, so it checks nothing "
+            "harsher; use inlet_temperature_rise to follow the variant"
+        )
+    if scenario.altitude is not None and scenario.altitude <= inputs.altitude + 1e-9:
+        out.append(
+            f"{where}: altitude {scenario.altitude:.0f} m is not above this variant's nominal "
+            f"{inputs.altitude:.0f} m, so it checks nothing harsher; use altitude_increase to "
+            "follow the variant"
+        )
+    p_nom = float(np.max(inputs.source.power))
+    if scenario.power is not None and scenario.power <= p_nom * (1 + 1e-12):
+        out.append(
+            f"{where}: power {scenario.power:.3g} W is not above this variant's nominal "
+            f"{p_nom:.3g} W; use power_factor to follow the variant"
+        )
+    milder_factors = {
+        "power_factor": (scenario.power_factor, "below", lambda v: v < 1),
+        "fan_speed_ratio": (scenario.fan_speed_ratio, "above", lambda v: v > 1),
+        "fan_pressure_factor": (scenario.fan_pressure_factor, "above", lambda v: v > 1),
+        "heat_transfer_factor": (scenario.heat_transfer_factor, "above", lambda v: v > 1),
+        "pressure_drop_factor": (scenario.pressure_drop_factor, "below", lambda v: v < 1),
+    }
+    for name, (value, side, is_milder) in milder_factors.items():
+        if value is not None and is_milder(value):
+            out.append(f"{where}: {name} {value:.3g} is {side} 1, milder than the nominal case")
+    return out
 
 
 def _series_losses(volume_flow, losses):
@@ -286,13 +421,29 @@ def apply_scenario(inputs: SinkInputs, scenario: Scenario, fan_block=None) -> Si
     is_natural = isinstance(i.flow, NaturalConvection)
     air, source, flow, options = i.air, i.source, i.flow, i.options
 
-    if s.inlet_temperature is not None or s.surroundings_temperature is not None:
+    altitude = i.altitude
+    if (
+        s.inlet_temperature is not None
+        or s.inlet_temperature_rise is not None
+        or s.surroundings_temperature is not None
+    ):
         inlet = air.inlet_temperature if s.inlet_temperature is None else s.inlet_temperature
+        if s.inlet_temperature_rise is not None:
+            inlet = np.asarray(inlet, float) + s.inlet_temperature_rise
         air = _shifted_air(air, inlet, s.surroundings_temperature)
-    if s.altitude is not None:
-        air = replace(air, pressure=float(standard_atmosphere(s.altitude).pressure))
+    if s.altitude is not None or s.altitude_increase is not None:
+        altitude = i.altitude if s.altitude is None else s.altitude
+        altitude = altitude + (s.altitude_increase or 0.0)
+        if altitude > ALTITUDE_RANGE[1]:
+            raise InputError(
+                f"{where}.altitude_increase: takes the site to {altitude:.0f} m; the standard "
+                f"atmosphere used here ends at {ALTITUDE_RANGE[1]:.0f} m"
+            )
+        air = replace(air, pressure=float(standard_atmosphere(altitude).pressure))
     if s.power is not None:
         source = replace(source, power=s.power)
+    if s.power_factor is not None:
+        source = replace(source, power=np.asarray(source.power, float) * s.power_factor)
 
     fan_changes = [
         n for n in ("fan_speed_ratio", "fan_pressure_factor", "filter") if getattr(s, n) is not None
@@ -352,7 +503,7 @@ def apply_scenario(inputs: SinkInputs, scenario: Scenario, fan_block=None) -> Si
         changes["extra_pressure_drop"] = functools.partial(_series_losses, losses=tuple(losses))
     if changes:
         options = replace(options, **changes)
-    return replace(i, air=air, source=source, flow=flow, options=options)
+    return replace(i, air=air, source=source, flow=flow, options=options, altitude=altitude)
 
 
 @dataclass(frozen=True)
@@ -401,6 +552,19 @@ class ScenarioRow:
         Validity messages of this solve.
     inputs : SinkInputs
         The inputs solved (for reproduction).
+    results : dict
+        Every result of this condition in the units of :data:`finkit.model.RESULT_UNITS`
+        (°C for temperatures), from :func:`finkit.model.solve_condition`.
+    solution, allowable : SinkSolution
+        States at the stated power and at the allowable power (None if there is none).
+    power_at_limit : float
+        Power with the node exactly at the limit [W].
+    altitude : float
+        Site altitude of this condition [m].
+    changes : tuple of str
+        What this condition changes from nominal, one readable item each [-].
+    combines : tuple of str
+        Scenarios merged into this one [-].
     """
 
     name: str
@@ -428,6 +592,32 @@ class ScenarioRow:
     is_governing: bool
     warnings: tuple[str, ...]
     inputs: SinkInputs = field(repr=False)
+    results: dict[str, float | None] = field(default_factory=dict, repr=False)
+    solution: SinkSolution | None = field(default=None, repr=False)
+    allowable: SinkSolution | None = field(default=None, repr=False)
+    power_at_limit: float = float("nan")
+    altitude: float = 0.0
+    changes: tuple[str, ...] = ()
+    combines: tuple[str, ...] = ()
+
+    def to_json_dict(self) -> dict:
+        """One entry of ``results.json``'s ``conditions`` list (°C, K, W, SI flows)."""
+        from finkit.model import RESULT_UNITS
+
+        return {
+            "name": self.name,
+            "description": self.description,
+            "status": self.status,
+            "is_governing": self.is_governing,
+            "changes": list(self.changes),
+            "combines": list(self.combines),
+            "altitude": {"value": self.altitude, "unit": "m"},
+            "results": {
+                k: {"value": None if v is None else float(v), "unit": RESULT_UNITS.get(k, "")}
+                for k, v in self.results.items()
+            },
+            "warnings": list(self.warnings),
+        }
 
 
 @dataclass(frozen=True)
@@ -444,11 +634,47 @@ class ScenarioTable:
 
     rows: tuple[ScenarioRow, ...]
     governing: str
+    notices: tuple[str, ...] = ()
 
     @property
     def governing_row(self) -> ScenarioRow:
         """The least-margin row."""
         return next(r for r in self.rows if r.is_governing)
+
+    @property
+    def least_allowable_power_row(self) -> ScenarioRow:
+        """The row with the least allowable power (the first one on a tie)."""
+        return self.rows[int(np.argmin([r.allowable_power for r in self.rows]))]
+
+    @property
+    def reason(self) -> str:
+        """Why the governing condition governs, in one sentence."""
+        gov = self.governing_row
+        if len(self.rows) == 1:
+            return "the only operating condition of the case (no scenarios given)"
+        others = sorted(r.margin for r in self.rows if r is not gov)
+        return (
+            f"least margin of the {len(self.rows)} operating conditions "
+            f"({gov.margin:.3g} K; next {others[0]:.3g} K)"
+        )
+
+    def governing_summary(self) -> dict:
+        """The ``governing`` block of ``results.json``."""
+        gov, least = self.governing_row, self.least_allowable_power_row
+        return {
+            "condition": gov.name,
+            "description": gov.description,
+            "reason": self.reason,
+            "status": gov.status,
+            "temperature_margin": {"value": gov.margin, "unit": "K"},
+            "required_margin": {"value": gov.required_margin, "unit": "K"},
+            "allowable_power": {"value": gov.allowable_power, "unit": "W"},
+            "power": {"value": gov.power, "unit": "W"},
+            "least_allowable_power_condition": least.name,
+            "least_allowable_power": {"value": least.allowable_power, "unit": "W"},
+            "condition_count": len(self.rows),
+            "failing_conditions": [r.name for r in self.rows if r.status == "fail"],
+        }
 
     @property
     def status(self) -> str:
@@ -470,18 +696,57 @@ def _allowable_power(inputs: SinkInputs) -> float:
     return float(allowable(inputs).power)
 
 
-def _row(name, description, inputs: SinkInputs) -> ScenarioRow:
-    sol = solve(inputs)
-    node_t = float(sol.node_temperature(inputs.limit_node))
-    margin = inputs.limit_temperature - node_t
+def scenario_changes(scenario: Scenario) -> tuple[str, ...]:
+    """What a scenario changes from nominal, one readable item each (SI shown in °C, m, W)."""
+    s, out = scenario, []
+    if s.inlet_temperature is not None:
+        out.append(f"inlet air {s.inlet_temperature - ZERO_CELSIUS:.1f} degC")
+    if s.inlet_temperature_rise is not None:
+        out.append(f"inlet air +{s.inlet_temperature_rise:.3g} K")
+    if s.surroundings_temperature is not None:
+        out.append(f"surroundings {s.surroundings_temperature - ZERO_CELSIUS:.1f} degC")
+    if s.altitude is not None:
+        out.append(f"altitude {s.altitude:.0f} m")
+    if s.altitude_increase is not None:
+        out.append(f"altitude +{s.altitude_increase:.0f} m")
+    if s.power is not None:
+        out.append(f"power {s.power:.3g} W")
+    if s.power_factor is not None:
+        out.append(f"power x{s.power_factor:.3g}")
+    if s.failed_fans:
+        out.append(f"{s.failed_fans} fan(s) stopped")
+    for name, label in (
+        ("fan_speed_ratio", "fan speed"),
+        ("fan_pressure_factor", "fan pressure"),
+        ("pressure_drop_factor", "sink pressure drop"),
+        ("heat_transfer_factor", "h"),
+    ):
+        value = getattr(s, name)
+        if value is not None:
+            out.append(f"{label} x{value:.3g}")
+    if s.filter is not None:
+        out.append(f"filter {s.filter.pressure_drop:.3g} Pa at {s.filter.volume_flow:.3g} m^3/s")
+    if s.deposit_thickness is not None:
+        out.append(f"dust layer {s.deposit_thickness * 1e3:.3g} mm")
+    if s.fouling_resistance is not None:
+        out.append(f"fouling {s.fouling_resistance:.3g} K m^2/W")
+    return tuple(out)
+
+
+def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None) -> ScenarioRow:
+    from finkit.model import solve_condition
+
+    state = solve_condition(inputs)
+    sol, r = state.solution, state.results
+    node_t = r["limit_node_temperature"] + ZERO_CELSIUS
     with np.errstate(invalid="ignore", divide="ignore"):
         bypass_fraction = float(sol.bypass_volume_flow / sol.volume_flow)
     return ScenarioRow(
         name=name,
         description=description,
         inlet_temperature=float(sol.inlet_air_temperature),
-        pressure=float(inputs.air.pressure),
-        power=float(sol.power),
+        pressure=float(np.max(inputs.air.pressure)),
+        power=float(np.max(sol.power)),
         limit_node=inputs.limit_node,
         node_temperature=node_t,
         junction_temperature=float(sol.junction_temperature),
@@ -489,10 +754,10 @@ def _row(name, description, inputs: SinkInputs) -> ScenarioRow:
         fin_tip_temperature=float(sol.fin_tip_temperature),
         outlet_air_temperature=float(sol.outlet_air_temperature),
         limit_temperature=float(inputs.limit_temperature),
-        margin=margin,
+        margin=r["temperature_margin"],
         required_margin=float(inputs.required_margin),
-        status="pass" if margin >= inputs.required_margin else "fail",
-        allowable_power=_allowable_power(inputs),
+        status=state.status,
+        allowable_power=r["allowable_power"],
         volume_flow=float(sol.volume_flow),
         sink_volume_flow=float(sol.sink_volume_flow),
         bypass_fraction=bypass_fraction,
@@ -500,8 +765,15 @@ def _row(name, description, inputs: SinkInputs) -> ScenarioRow:
         heat_transfer_coefficient=float(sol.heat_transfer_coefficient),
         sink_resistance=float(sol.sink_resistance),
         is_governing=False,
-        warnings=tuple(sol.warnings),
+        warnings=state.warnings,
         inputs=inputs,
+        results=r,
+        solution=sol,
+        allowable=state.allowable,
+        power_at_limit=r["power_at_limit"],
+        altitude=float(np.max(inputs.altitude)),
+        changes=() if scenario is None else scenario_changes(scenario),
+        combines=() if scenario is None else scenario.combines,
     )
 
 
@@ -536,9 +808,11 @@ def run_scenarios(
             f"scenarios: names must be unique and not 'nominal' (got {', '.join(repeated)})"
         )
     rows = [_row("nominal", nominal_description, inputs)]
+    notices = []
     for s in scenarios:
+        notices += milder_than_nominal(inputs, s)
         try:
-            rows.append(_row(s.name, s.description, apply_scenario(inputs, s, fan_block)))
+            rows.append(_row(s.name, s.description, apply_scenario(inputs, s, fan_block), s))
         except FinkitError as exc:
             if hasattr(exc, "errors"):
                 raise  # an error made of several lines keeps its own form
@@ -546,7 +820,7 @@ def run_scenarios(
             raise type(exc)(f"scenarios[{s.name}]: {exc}") from None
     governing = int(np.argmin([r.margin for r in rows]))
     rows[governing] = replace(rows[governing], is_governing=True)
-    return ScenarioTable(rows=tuple(rows), governing=rows[governing].name)
+    return ScenarioTable(rows=tuple(rows), governing=rows[governing].name, notices=tuple(notices))
 
 
 # --------------------------------------------------------------------------------------
@@ -809,6 +1083,30 @@ class Calibration:
     degrees_of_freedom: int
     statement: str
     is_applied: bool = False
+    measurement_uncertainty: float = 1.0
+
+    @property
+    def mean_underprediction(self) -> float:
+        """Mean of measured less predicted (uncalibrated) temperature [K]; > 0 reads low."""
+        return float(np.mean(self.measured - self.predicted_uncalibrated))
+
+    @property
+    def reads_low(self) -> bool:
+        """The uncalibrated model reads lower than the test by more than the measurement noise."""
+        return self.mean_underprediction > self.measurement_uncertainty
+
+    @property
+    def warning(self) -> str:
+        """One line for the warnings list when the model reads low (non-conservative)."""
+        low = self.measured - self.predicted_uncalibrated
+        return (
+            f"calibration: the model reads {np.min(low):.2g} to {np.max(low):.2g} K lower than "
+            f"the {len(low)} measured point(s) (mean {self.mean_underprediction:.2g} K, above the "
+            f"{self.measurement_uncertainty:.2g} K measurement uncertainty): non-conservative; "
+            f"fitted multiplier {self.multiplier:.3g} on the "
+            f"{'air-side h' if self.target == 'heat_transfer' else 'sink resistance'}"
+            + ("" if self.is_applied else " (not applied; the headline shows both)")
+        )
 
 
 CALIBRATION_TARGETS = ("heat_transfer", "sink_resistance")
@@ -887,7 +1185,12 @@ def _predict(groups, target, multiplier, count) -> np.ndarray:
     return out
 
 
-def calibrate(inputs: SinkInputs, measurements, target: str = "heat_transfer") -> Calibration:
+def calibrate(
+    inputs: SinkInputs,
+    measurements,
+    target: str = "heat_transfer",
+    measurement_uncertainty: float = 1.0,
+) -> Calibration:
     """Fit one empirical multiplier (on h or on the sink resistance) to measured temperatures.
 
     Parameters
@@ -903,6 +1206,10 @@ def calibrate(inputs: SinkInputs, measurements, target: str = "heat_transfer") -
         ``sink_resistance``: the whole fins-and-base-to-air resistance, convection and
         radiation together (``ModelOptions.sink_resistance_factor``); use it when the test
         cannot separate the air side from the rest of the sink.
+
+    measurement_uncertainty : float, optional
+        Uncertainty of one measured temperature [K]; the model "reads low" when it
+        under-predicts by more than this on average.
 
     Returns
     -------
@@ -978,6 +1285,7 @@ def calibrate(inputs: SinkInputs, measurements, target: str = "heat_transfer") -
         rms_residual=float(np.sqrt(np.mean(r**2))),
         degrees_of_freedom=dof,
         statement=statement,
+        measurement_uncertainty=float(measurement_uncertainty),
     )
 
 
@@ -989,6 +1297,11 @@ def apply_calibration(inputs: SinkInputs, calibration: Calibration) -> SinkInput
     the sink divided by the multiplier, spreading and base conduction recomputed from it).
     """
     return _with_multiplier(inputs, calibration.target, calibration.multiplier)
+
+
+def uncalibrated(inputs: SinkInputs, calibration: Calibration) -> SinkInputs:
+    """The inputs with an applied multiplier taken out again (inverse of apply_calibration)."""
+    return _with_multiplier(inputs, calibration.target, 1.0 / calibration.multiplier)
 
 
 # --------------------------------------------------------------------------------------

@@ -55,6 +55,7 @@ __all__ = [
     "JUNCTION_TO_CASE_BASES",
     "MEASUREMENT_NODES",
     "REVIEW_BLOCKS",
+    "SCENARIO_RELATIVE_FIELDS",
     "TOUCH_SURFACES",
     "CalibrationBlock",
     "FilterBlock",
@@ -94,6 +95,14 @@ MEASUREMENT_NODES = ("junction", "case", "base", "fin_tip")
 #: Accessible surfaces of a touch check (``touch.surfaces``).
 TOUCH_SURFACES = ("base", "fin_tips")
 
+#: Scenario fields given absolutely and their relative form (``scenarios[i]``): a relative
+#: field shifts or scales the variant's own nominal value, so the scenario follows the variant.
+SCENARIO_RELATIVE_FIELDS = {
+    "inlet_temperature": "inlet_temperature_rise",
+    "altitude": "altitude_increase",
+    "power": "power_factor",
+}
+
 _NAME = re.compile(r"^[a-z0-9][a-z0-9._-]{0,63}$")
 
 
@@ -123,6 +132,7 @@ Count = whole(1)
 Temperature = _quantity("temperature")
 TemperatureDifference = _quantity("temperature_difference", ge=0.0, unit=" K")
 Altitude = _quantity("length", ge=ALTITUDE_RANGE[0], le=ALTITUDE_RANGE[1], unit=" m")
+AltitudeIncrease = _quantity("length", ge=0.0, le=ALTITUDE_RANGE[1] - ALTITUDE_RANGE[0], unit=" m")
 Power = _quantity("power", gt=0.0, unit=" W")
 VolumeFlow = _quantity("volume_flow", gt=0.0, unit=" m^3/s")
 Velocity = _quantity("velocity", gt=0.0, unit=" m/s")
@@ -202,10 +212,24 @@ class ScenarioBlock(_Model):
     surroundings_temperature : float, optional
         Temperature of the surfaces the sink radiates to [K]; left out, it moves with the inlet
         air (keeps the nominal difference). [K]
+    inlet_temperature_rise : float, optional
+        Inlet air this much warmer than the variant's own nominal inlet (relative; follows the
+        variant) [K]. Not with ``inlet_temperature``.
     altitude : float, optional
         Altitude; the pressure follows the standard atmosphere [m].
+    altitude_increase : float, optional
+        This much higher than the variant's own nominal altitude (relative) [m]. Not with
+        ``altitude``.
     power : float, optional
         Power of the source [W].
+    power_factor : float, optional
+        Multiplier on the variant's own nominal power (relative; e.g. 1.1 for a +10 % power
+        corner) [-]. Not with ``power``.
+    combines : list of str, optional
+        Names of other scenarios of the case applied together with this one (e.g. a hot day
+        with one fan failed). Their changes are merged: relative rises add, factors multiply,
+        resistances and deposits add; an absolute value set differently by two parts is an
+        error. The named scenarios may not combine others themselves. [-]
     fan_speed_ratio : float, optional
         Fan speed over its rated speed; the curve follows the fan laws (Q ∝ N, dp ∝ N²) [-].
     fan_pressure_factor : float, optional
@@ -234,10 +258,14 @@ class ScenarioBlock(_Model):
 
     name: Name
     description: Text | None = None
+    combines: list[Name] = []
     inlet_temperature: Temperature | None = None
+    inlet_temperature_rise: TemperatureDifference | None = None
     surroundings_temperature: Temperature | None = None
     altitude: Altitude | None = None
+    altitude_increase: AltitudeIncrease | None = None
     power: Power | None = None
+    power_factor: Factor | None = None
     fan_speed_ratio: Factor | None = None
     fan_pressure_factor: Factor | None = None
     failed_fans: Count | None = None
@@ -259,11 +287,19 @@ class ScenarioBlock(_Model):
             raise _fail_at(
                 "deposit_conductivity", "needs deposit_thickness (got the conductivity only)"
             )
+        for absolute, relative in SCENARIO_RELATIVE_FIELDS.items():
+            if getattr(self, absolute) is not None and getattr(self, relative) is not None:
+                raise _fail_at(
+                    relative,
+                    f"give {absolute} (absolute) or {relative} (relative to the nominal), not both",
+                )
+        if self.name in self.combines:
+            raise _fail_at("combines", f"a scenario cannot combine itself (got '{self.name}')")
         changes = [
             n
             for n in type(self).model_fields
-            if n not in ("name", "description") and getattr(self, n) is not None
-        ]
+            if n not in ("name", "description", "combines") and getattr(self, n) is not None
+        ] + list(self.combines)
         if not changes:
             raise _fail(f"scenario '{self.name}' changes nothing (give at least one condition)")
         return self
@@ -383,10 +419,15 @@ class CalibrationBlock(_Model):
     ``target``: ``heat_transfer`` (multiplier on the air-side h) or ``sink_resistance``
     (multiplier on the sink resistance, convection plus radiation). ``apply``: use the fitted
     multiplier in every result of the case (default false: reported only).
+    ``measurement_uncertainty`` [K]: the uncertainty of one measured temperature (thermocouple
+    and placement; default 1 K, common practice, no source). When the model reads lower than
+    the measurements by more than this on average, the case carries a warning and the headline
+    shows the calibrated governing result beside the uncalibrated one.
     """
 
     target: Literal["heat_transfer", "sink_resistance"] = "heat_transfer"
     apply: bool = False
+    measurement_uncertainty: TemperatureDifference = 1.0
 
 
 class ReviewBlocks(_Model):
@@ -408,6 +449,20 @@ class ReviewBlocks(_Model):
                 )
         if self.calibration is not None and not self.measurements:
             raise _fail_at("calibration", "needs measurements (got none)")
+        by_name = {s.name: s for s in self.scenarios}
+        for k, scenario in enumerate(self.scenarios):
+            for part in scenario.combines:
+                if part not in by_name:
+                    raise _fail_at(
+                        f"scenarios.{k}.combines",
+                        f"no scenario named '{part}' (allowed: "
+                        f"{', '.join(n for n in by_name if n != scenario.name) or 'none'})",
+                    )
+                if by_name[part].combines:
+                    raise _fail_at(
+                        f"scenarios.{k}.combines",
+                        f"'{part}' combines other scenarios itself; name its parts instead",
+                    )
         return self
 
 

@@ -144,7 +144,7 @@ def demo(request):
 def test_numbers_at_start_are_those_of_run_case(demo):
     path, explorer = demo
     explorer.reset()
-    _assert_same_numbers(explorer, run_case(load_case(path)).results)
+    _assert_same_numbers(explorer, run_case(load_case(path)).nominal.results)
     assert explorer.result.status in ("pass", "fail")
 
 
@@ -159,7 +159,7 @@ def test_each_control_moved_gives_the_numbers_of_the_equivalent_case(demo):
         assert explorer.controls[name].value == NEW_VALUES[name], name
         explorer.update()
         equivalent = _equivalent(path, nominal=True, **{name: NEW_VALUES[name]})
-        expected = run_case(load_case(equivalent)).results
+        expected = run_case(load_case(equivalent)).nominal.results
         _assert_same_numbers(explorer, expected)
     explorer.reset()
 
@@ -171,11 +171,11 @@ def test_material_and_finish_controls_give_the_equivalent_case(demo):
     explorer.set(material="copper-c11000", finish="oxidised")
     expected = run_case(
         load_case(_equivalent(path, nominal=True, material="copper-c11000", finish="oxidised"))
-    ).results
+    ).nominal.results
     _assert_same_numbers(explorer, expected)
     explorer.reset()
     explorer.controls["finish"].value = "bare"
-    expected = run_case(load_case(_equivalent(path, nominal=True, finish="bare"))).results
+    expected = run_case(load_case(_equivalent(path, nominal=True, finish="bare"))).nominal.results
     _assert_same_numbers(explorer, expected)
     explorer.reset()
 
@@ -274,7 +274,7 @@ def test_save_case_round_trips(tmp_path, capsys):
     assert entered["scenarios"] == _raw(path)["scenarios"]  # other blocks kept
     assert "sink.fins.height: '30 mm' -> '25.5 mm'" in text  # the header lists the change
     # The saved case gives the numbers the explorer showed.
-    _assert_same_numbers(explorer, run_case(case).results)
+    _assert_same_numbers(explorer, run_case(case).nominal.results)
     # finkit check accepts it (0 pass, 1 fail; 2 would be an input error).
     assert cli.main(["check", str(saved)]) in (0, 1)
     assert "nb200-explored" in capsys.readouterr().out

@@ -150,7 +150,11 @@ SINK_CASES = {"fan-plate": FAN_PLATE, "natural": NATURAL, "pin-flow": PIN_FLOW}
 
 @pytest.fixture(scope="module")
 def results():
-    return {name: report.run(copy.deepcopy(case)) for name, case in SINK_CASES.items()}
+    # Seen at the governing condition: the tables and figures of a note describe that one.
+    return {
+        name: report.at_governing(report.run(copy.deepcopy(case)))
+        for name, case in SINK_CASES.items()
+    }
 
 
 @pytest.fixture(scope="module")

@@ -112,7 +112,7 @@ def test_case_design_is_the_case_file(note):
     d = note.case_design.design
     assert (d["fin_count"], d["fin_height"], d["fin_thickness"]) == (14.0, 0.03, 0.0012)
     assert note.case_design.values["limit_node_temperature"] == pytest.approx(
-        note.result.results["limit_node_temperature"] + 273.15, rel=1e-9
+        note.result.nominal.results["limit_node_temperature"] + 273.15, rel=1e-9
     )
     assert note.case_design.values["mass"] == pytest.approx(note.result.results["mass"], rel=1e-12)
 
