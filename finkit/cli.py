@@ -72,10 +72,11 @@ def _rows(payload: dict) -> list[tuple[str, str, str]]:
     return rows
 
 
-def _print_table(case_id: str, status: str, rows, warnings) -> None:
+def _print_table(case_id: str | None, status: str, rows, warnings) -> None:
     width = max([len(r[0]) for r in rows] + [len("result")])
     vwidth = max([len(r[1]) for r in rows] + [len("value")])
-    print(f"case {case_id}")
+    if case_id is not None:
+        print(f"case {case_id}")
     print(f"{'result':<{width}}  {'value':>{vwidth}}  unit")
     for name, value, unit in rows:
         print(f"{name:<{width}}  {value:>{vwidth}}  {unit}".rstrip())
@@ -84,6 +85,79 @@ def _print_table(case_id: str, status: str, rows, warnings) -> None:
         print("warnings:")
         for line in warnings:
             print(f"  - {line}")
+
+
+def _value(block: dict, name: str):
+    entry = (block or {}).get(name)
+    return entry.get("value") if isinstance(entry, dict) else entry
+
+
+def _governing_lines(payload: dict) -> list[str]:
+    """The verdict on the governing condition, first thing ``finkit check`` prints."""
+    gov = payload.get("governing")
+    if not isinstance(gov, dict):
+        return []
+    r = payload.get("results") or {}
+    node_t, limit = _value(r, "limit_node_temperature"), _value(r, "limit_temperature")
+    margin, required = _value(gov, "temperature_margin"), _value(gov, "required_margin")
+    allowed, power = _value(gov, "allowable_power"), _value(gov, "power")
+    lines = [
+        f"governing condition: {gov['condition']} ({gov.get('description') or 'as stated'})",
+        f"  why: {gov.get('reason', '')}",
+    ]
+    if None not in (node_t, limit, margin, required):
+        if margin >= required:
+            against = f"meets the required {required:.3g} K"
+        elif margin >= 0:
+            against = f"{required - margin:.3g} K short of the required {required:.3g} K"
+        else:
+            against = f"{-margin:.3g} K above the limit"
+        lines.append(
+            f"  limit node {node_t:.1f} degC against the {limit:.1f} degC limit: "
+            f"margin {margin:.3g} K, {against}"
+        )
+    if None not in (allowed, power):
+        lines.append(f"  allowable power {allowed:.3g} W against the stated {power:.3g} W")
+    calibration = (payload.get("review") or {}).get("calibration") or {}
+    other = calibration.get("governing_other")
+    if other:
+        o = other["results"]
+        which = "calibrated" if other.get("is_calibrated") else "uncalibrated"
+        lines.append(
+            f"  {which} (multiplier {calibration['multiplier']:.3g} on "
+            f"{calibration['target'].replace('_', ' ')}): limit node "
+            f"{_value(o, 'limit_node_temperature'):.1f} degC, margin "
+            f"{_value(o, 'temperature_margin'):.3g} K, allowable power "
+            f"{_value(o, 'allowable_power'):.3g} W"
+        )
+    least = gov.get("least_allowable_power_condition")
+    if least and least != gov["condition"]:
+        lines.append(
+            f"  least allowable power: {_value(gov, 'least_allowable_power'):.3g} W in '{least}'"
+        )
+    return lines
+
+
+def _condition_lines(payload: dict) -> list[str]:
+    conditions = payload.get("conditions") or []
+    if len(conditions) < 2:
+        return []
+    width = max(len(c["name"]) for c in conditions) + 2
+    lines = [
+        f"conditions ({len(conditions)}):",
+        f"  {'name':<{width}}  status  node [degC]  margin [K]  allowable [W]",
+    ]
+    for c in conditions:
+        r = c.get("results") or {}
+        mark = " *" if c.get("is_governing") else ""
+        lines.append(
+            f"  {c['name'] + mark:<{width}}  {c['status']:<6}  "
+            f"{_number(_value(r, 'limit_node_temperature')):>11}  "
+            f"{_number(_value(r, 'temperature_margin')):>10}  "
+            f"{_number(_value(r, 'allowable_power')):>13}"
+        )
+    lines.append("  (* governing)")
+    return lines
 
 
 def _check(args) -> int:
@@ -97,8 +171,13 @@ def _check(args) -> int:
     status = str(getattr(result, "status", payload.get("status")))
     if args.json:
         print(json.dumps(payload, indent=2, ensure_ascii=False))
-    else:
-        _print_table(case.case_id, status, _rows(payload), list(result.warnings))
+        return EXIT_FAIL if status == "fail" else EXIT_PASS
+    print(f"case {case.case_id}: status {status.upper()}")
+    for line in _governing_lines(payload) + _condition_lines(payload):
+        print(line)
+    if payload.get("governing"):
+        print(f"results at the governing condition '{payload['governing']['condition']}':")
+    _print_table(None, status, _rows(payload), list(result.warnings))
     return EXIT_FAIL if status == "fail" else EXIT_PASS
 
 

@@ -28,6 +28,7 @@ from typing import Any
 import numpy as np
 
 from finkit import present
+from finkit.constants import ZERO_CELSIUS
 from finkit.units import format_quantity, from_si
 
 __all__ = [
@@ -72,6 +73,10 @@ __all__ = [
     "sweep_figures",
     "sweep_names",
     "title_block",
+    "verdict_page",
+    "plot_figures",
+    "at_governing",
+    "H_SCATTER",
     "warnings_section",
 ]
 
@@ -108,8 +113,12 @@ _STYLE = {
     "axes.prop_cycle": None,  # replaced below (cycler needs matplotlib)
 }
 
-_FIGSIZE = (6.6, 3.7)
-_FIGSIZE_TALL = (6.6, 5.0)
+_FIGSIZE = (6.6, 3.4)
+
+#: The scatter of convection correlations against their own data, quoted wherever a note
+#: speaks of it (common practice, no source gives one number).
+H_SCATTER = "±15-25 %"
+_FIGSIZE_TALL = (6.6, 4.4)
 _FIGSIZE_WIDE = (7.0, 3.4)
 
 # Display units of the notes.
@@ -123,6 +132,12 @@ _NODE_NAMES = {"junction": "Junction", "case": "Case", "base": "Base under the s
 
 # --------------------------------------------------------------------------------------------
 # Small helpers (formatting, markup from escaped parts)
+
+
+def _air(result, capital: bool = False) -> str:
+    """The air the sink is referred to: inlet air (forced flow) or ambient air (still air)."""
+    word = "ambient air" if _is_natural(result) else "inlet air"
+    return word.capitalize() if capital else word
 
 
 def at_governing(result):
@@ -390,6 +405,225 @@ def title_block(result, note_time: str = "") -> present.Fragment:
     return _join(*parts)
 
 
+def _k3(kelvin_difference: float) -> str:
+    """A temperature difference to 3 significant figures (margins)."""
+    return f"{_sig(kelvin_difference)}{_NBSP}K"
+
+
+def _margin_text(margin: float, required: float) -> str:
+    """A margin read against the required one; a negative margin reads 'above the limit'."""
+    if margin < 0:
+        return f"{_sig(-margin)}{_NBSP}K above the limit"
+    if margin < required:
+        return (
+            f"{_sig(margin)}{_NBSP}K, {_sig(required - margin)}{_NBSP}K short of the required "
+            f"{_sig(required)}{_NBSP}K"
+        )
+    return f"{_sig(margin)}{_NBSP}K (required {_sig(required)}{_NBSP}K)"
+
+
+def _ranked_warnings(result) -> list[str]:
+    """Warnings, most serious first: a model that reads low, scenarios that check nothing
+    harsher, input flags, then validity messages."""
+
+    def rank(w: str) -> int:
+        if w.startswith("calibration:"):
+            return 0
+        if "checks nothing harsher" in w or "milder than the nominal" in w:
+            return 1
+        flags = getattr(_review_of(result), "flags", ()) or ()
+        return 2 if w in flags else 3
+
+    return sorted(result.warnings, key=rank)
+
+
+def _condition_rows(table, *, compact: bool) -> list[tuple]:
+    rows = []
+    for r in sorted(table.rows, key=lambda r: (not r.is_governing, r.name != "nominal")):
+        name = r.name + (" (governing)" if r.is_governing else "")
+        changes = ", ".join(r.changes) if r.changes else "as stated"
+        row = [name, changes, _c(r.inlet_temperature), _c(r.node_temperature)]
+        row += [_margin_text(r.margin, r.required_margin) if not compact else _k3(r.margin)]
+        row += [_q(r.allowable_power, "power", "W"), present.badge(r.status == "pass")]
+        rows.append(tuple(row))
+    return rows
+
+
+def verdict_page(result, note_time: str = "") -> present.Fragment:
+    """Page 1 of a heat-sink note: the verdict on the governing condition and the sign-off.
+
+    Status; the governing condition and why it governs; its limit-node temperature against the
+    limit, its margin against the required margin and its allowable power against the stated
+    power (all from that one condition); the calibrated result beside it when test data read
+    higher than the model; the number of warnings with the most serious ones; a compact table
+    of every condition; and the sign-off block. Software details are in the provenance footer.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    note_time : str, optional
+        ISO 8601 execution time injected by ``finkit.notes.render_note``; empty for a copy run
+        by hand (marked DRAFT). [-]
+
+    Returns
+    -------
+    present.Fragment
+        The first page. [-]
+    """
+    case, tb = result.case, result.case.title_block
+    table = result.conditions
+    gov = result.governing
+    node = _node(result)
+    ok = result.status == "pass"
+    date = note_time[:10] if note_time else "DRAFT (not issued)"
+    parts = [present.heading(f"{tb.part}: heat-sink thermal calculation", 1)]
+    if tb.description:
+        parts.append(present.text(tb.description, css_class="fk-lede"))
+    doc = [
+        ("Project", tb.project, "Part", tb.part),
+        ("Revision", tb.revision, "Date", date),
+        ("Company", tb.company or "—", "Case", case.case_id),
+    ]
+    parts.append(present.html_table(doc, css_class="fk-docdata"))
+    if not note_time:
+        now = _dt.datetime.now().astimezone().isoformat(timespec="seconds")
+        parts.append(
+            present.badge("warn", f"DRAFT: run by hand at {now}; issue it with 'finkit note'")
+        )
+
+    verdict = (
+        f"{'Passes' if ok else 'Fails'} on the governing condition '{gov.name}'"
+        + (f" ({gov.description})" if gov.description else "")
+        + f": {node} {_c(gov.node_temperature)} against the {_c(gov.limit_temperature)} "
+        f"limit, margin {_margin_text(gov.margin, gov.required_margin)}."
+    )
+    parts.append(
+        present.Fragment(
+            f'<div class="fk-verdict-box fk-verdict-{"pass" if ok else "fail"}">'
+            f'<p class="fk-verdict">{present.escape(present.badge(ok, "PASS" if ok else "FAIL"))}'
+            f" {present.escape(verdict)}</p>"
+            f'<p class="fk-small">Why it governs: {present.escape(table.reason)}.</p></div>'
+        )
+    )
+    rise = gov.node_temperature - gov.inlet_temperature
+    share = f" ({gov.margin / rise * 100:.0f} % of the rise)" if rise > 0 else ""
+    checks = [
+        (
+            f"{_node_name(result)} temperature",
+            _c(gov.node_temperature),
+            f"limit {_c(gov.limit_temperature)}",
+            present.badge(gov.node_temperature <= gov.limit_temperature),
+        ),
+        (
+            "Margin below the limit",
+            f"{_k3(gov.margin)}{share}",
+            f"required {_k(gov.required_margin)}",
+            present.badge(gov.margin >= gov.required_margin),
+        ),
+        (
+            "Allowable power (limit less the margin)",
+            _q(gov.allowable_power, "power", "W"),
+            f"stated {_q(gov.power, 'power', 'W')}",
+            present.badge(gov.allowable_power >= gov.power),
+        ),
+        (
+            "Power at the limit (no margin)",
+            _q(gov.power_at_limit, "power", "W"),
+            "for information",
+            present.badge("info"),
+        ),
+    ]
+    least = table.least_allowable_power_row
+    if least is not gov and least.allowable_power < gov.allowable_power:
+        checks.append(
+            (
+                f"Least allowable power: '{least.name}'",
+                _q(least.allowable_power, "power", "W"),
+                f"stated {_q(least.power, 'power', 'W')}",
+                present.badge(least.allowable_power >= least.power),
+            )
+        )
+    review = _review_of(result)
+    calibration = getattr(review, "calibration", None)
+    other = getattr(review, "calibrated_governing", None)
+    if calibration is not None and other is not None:
+        which = "uncalibrated" if calibration.is_applied else "calibrated"
+        checks.append(
+            (
+                f"Same condition, {which} (x{_sig(calibration.multiplier)} on "
+                f"{'h' if calibration.target == 'heat_transfer' else 'R_sink'})",
+                _c(other["limit_node_temperature"] + ZERO_CELSIUS),
+                f"margin {_margin_text(other['temperature_margin'], other['required_margin'])}; "
+                f"allowable {_q(other['allowable_power'], 'power', 'W')}",
+                present.badge(
+                    "warn" if calibration.reads_low else "info",
+                    "READS LOW" if calibration.reads_low else "INFO",
+                ),
+            )
+        )
+    parts.append(
+        present.html_table(
+            checks,
+            header=("Check at the governing condition", "Result", "Against", ""),
+            css_class="fk-checks",
+        )
+    )
+
+    ranked = _ranked_warnings(result)
+    if ranked:
+        shown = ranked[:3]
+        more = len(ranked) - len(shown)
+        parts.append(
+            _join(
+                present.text(
+                    f"{len(ranked)} warning{'s' if len(ranked) > 1 else ''}; the most serious:"
+                    + (f" (and {more} more in section 7)" if more else ""),
+                    css_class="fk-small",
+                ),
+                _bullets(_one_line(w, 320) for w in shown),
+            )
+        )
+    else:
+        parts.append(present.text("No warning.", css_class="fk-small"))
+    parts.append(
+        present.html_table(
+            _condition_rows(table, compact=True),
+            header=(
+                "Condition",
+                "Changes from nominal",
+                f"{_air(result, True)}",
+                f"{_node_name(result)}",
+                "Margin",
+                "Allowable power",
+                "",
+            ),
+            caption=f"Every operating condition checked ({len(table.rows)}), governing first.",
+            css_class="fk-conditions",
+        )
+    )
+    names = [
+        ("Prepared by", tb.prepared_by),
+        ("Checked by", tb.checked_by),
+        ("Approved by", tb.approved_by),
+    ]
+    parts.append(
+        present.html_table(
+            [(role, name or "", "", "") for role, name in names],
+            header=("Sign-off", "Name", "Signature", "Date"),
+            css_class="fk-signoff-table",
+        )
+    )
+    return present.Fragment(
+        '<section class="fk-page1">' + "".join(present.escape(p) for p in parts) + "</section>"
+    )
+
+
+def _one_line(text: str, limit: int = 220) -> str:
+    line = " ".join(str(text).split())
+    return line if len(line) <= limit else line[: limit - 1] + "…"
+
+
 _SI_UNITS = {
     "power": "W",
     "footprint_length": "m",
@@ -437,6 +671,30 @@ _ABSOLUTE = {
     "temperature",
 }
 _NOT_INPUTS = {"case_id", "kind", "title_block"}
+
+#: Blocks whose items (scenarios, measurements, tolerances) take one row each in the inputs
+#: table; their own sections show them in full.
+_GROUPED_BLOCKS = {"scenarios", "measurements", "tolerances"}
+_TEXT_FIELDS = {"name", "description", "source", "basis", "distribution"}
+
+#: Defaults listed in the inputs table (the last part of the field path): values a case left
+#: out that change the answer and that a reviewer should see.
+_NOTABLE_DEFAULTS = {
+    "surroundings_temperature",
+    "altitude",
+    "pressure_factor",
+    "rating_density",
+    "arrangement",
+    "required_margin",
+    "junction_to_case",
+    "emissivity",
+    "finish",
+    "measurement_uncertainty",
+    "apply",
+    "target",
+    "exponent",
+    "ambient_temperature",
+}
 
 
 _PRETTY_UNITS = {
@@ -563,25 +821,52 @@ def inputs_table(result) -> present.Fragment:
     si = case.model_dump(mode="json")
     rows = []
     seen = set()
+    grouped: dict[tuple, list[tuple[str, str, str]]] = {}
     for path, value in _leaves(entered):
         if path[0] in _NOT_INPUTS:
             continue
         seen.add(path)
-        rows.append(
-            (_path_text(path), _entered_text(value), _si_text(path, _lookup(si, path), value))
-        )
+        si_text = _si_text(path, _lookup(si, path), value)
+        if path[0] in _GROUPED_BLOCKS and len(path) > 2:
+            # One row per scenario, measurement or tolerance: each is shown in full in its
+            # own section, so the appendix keeps it to one line.
+            field_name = ".".join(str(k) for k in path[2:])
+            grouped.setdefault(path[:2], []).append((field_name, _entered_text(value), si_text))
+            if len(grouped[path[:2]]) == 1:
+                rows.append(path[:2])
+            continue
+        rows.append((_path_text(path), _entered_text(value), si_text))
+    for k, row in enumerate(rows):
+        if isinstance(row, tuple) and row in grouped:
+            items = grouped[row]
+            label = _lookup(entered, row)
+            name = label.get("name") if isinstance(label, Mapping) else None
+            head = f"{row[0]}[{name}]" if name else _path_text(row)
+            entered_text = "; ".join(
+                f"{f}: {e}" for f, e, _ in items if f not in ("name", "description")
+            )
+            si_parts = "; ".join(
+                f"{f} = {v}" for f, e, v in items if f not in _TEXT_FIELDS and v != e
+            )
+            rows[k] = (head, entered_text, si_parts or "as entered")
     for path, value in _leaves(si):
         if path[0] in _NOT_INPUTS or path in seen or value in (None, [], {}):
             continue
         if any(path[:i] in seen for i in range(1, len(path))):
             continue  # inside a value given as a whole (e.g. a list)
+        if path[-1] not in _NOTABLE_DEFAULTS:
+            continue
         parent = _lookup(entered, path[:-1]) if len(path) > 1 else entered
         if isinstance(parent, Mapping):
             rows.append((_path_text(path), "(default)", _si_text(path, value)))
     return present.html_table(
         rows,
         header=("Input", "As entered", "SI value used"),
-        caption="Inputs of the case file; '(default)' marks a value the file left out.",
+        css_class="fk-inputs",
+        caption=(
+            "Inputs of the case file; '(default)' marks a value the file left out that a "
+            "reviewer should know (other defaults, such as sampling settings, are not listed)."
+        ),
     )
 
 
@@ -617,7 +902,10 @@ def derived_geometry_table(result) -> present.Fragment:
         ]
     rows += [
         ("Exposed base area (between fins)", _q(g.base_exposed_area, "area", "cm^2")),
-        ("Total wetted area (as modelled, shrouded)", _q(_total_area(g), "area", "cm^2")),
+        (
+            "Total wetted area (as modelled" + ("" if _is_natural(result) else ", shrouded") + ")",
+            _q(_total_area(g), "area", "cm^2"),
+        ),
         ("Sink mass", f"{_sig(result.results['mass'])} kg"),
         (
             "Thermal conductivity of the sink",
@@ -625,7 +913,15 @@ def derived_geometry_table(result) -> present.Fragment:
         ),
         ("Emissivity of the finish", _sig(_f(result.inputs.material.emissivity), 2)),
     ]
-    return present.key_value_table(rows, header=("Derived quantity", "Value"))
+    # Two quantities per row: the table is a reference list, not a headline.
+    half = (len(rows) + 1) // 2
+    left, right = rows[:half], rows[half:] + [("", "")] * (2 * half - len(rows))
+    paired = [(*a, *b) for a, b in zip(left, right, strict=True)]
+    return present.html_table(
+        paired,
+        header=("Derived quantity", "Value", "Derived quantity", "Value"),
+        css_class="fk-kv fk-derived",
+    )
 
 
 def _total_area(g) -> float:
@@ -752,11 +1048,12 @@ def method_section(result) -> present.Fragment:
     opts = result.inputs.options
     parts: list[Any] = [
         present.text(
-            "The heat flows from the junction to the inlet air through a chain of resistances in "
-            "series: junction to case (from the device data), the interface material, spreading "
-            "from the source footprint into the base, one-dimensional conduction through the "
-            "base, and the sink (fins and exposed base to the air). The sink resistance is "
-            "referred to the inlet air temperature and includes the heating of the air along "
+            f"The heat flows from the junction to the {_air(result)} through a chain of "
+            "resistances in series: junction to case (from the device data), the interface "
+            "material, spreading from the source footprint into the base, one-dimensional "
+            "conduction through the base, and the sink (fins and exposed base to the air). The "
+            f"sink resistance is referred to the {_air(result)} temperature and includes the "
+            "heating of the air along "
             "the sink."
         ),
         present.equation(
@@ -770,9 +1067,9 @@ def method_section(result) -> present.Fragment:
         present.heading("Air", 3),
         present.text(
             f"Dry air. The pressure is that of the standard atmosphere at the stated altitude "
-            f"{cite('atmosphere')}; the temperature is the stated inlet temperature, not the "
-            f"standard-atmosphere one. Properties (density, viscosity, conductivity, specific "
-            f"heat, Prandtl number) come from CoolProp {cite('coolprop')}, tabulated and "
+            f"{cite('atmosphere')}; the temperature is the stated {_air(result)} temperature, "
+            "not the standard-atmosphere one. Properties (density, viscosity, conductivity, "
+            f"specific heat, Prandtl number) come from CoolProp {cite('coolprop')}, tabulated and "
             "interpolated by finkit."
         ),
     ]
@@ -872,10 +1169,14 @@ def method_section(result) -> present.Fragment:
             present.heading("Fin and surface efficiency", 3),
             present.text(
                 "Each fin is a one-dimensional fin of uniform thickness t with the area-mean h, "
-                "adiabatic at the tip on the corrected length L_c = H + t/2 when the tip sees "
-                "the air (natural convection, or a gap above the tips) and on the real height H "
-                f"when a shroud touches the tips {cite('incropera')}. The fins and the exposed "
-                "base together give the surface efficiency:"
+                "adiabatic at the tip on the corrected length L_c = H + t/2"
+                + (
+                    f" {cite('incropera')}, since the tips see the still air."
+                    if _is_natural(result)
+                    else " when the tip sees the air (a gap above the tips) and on the real "
+                    f"height H when a shroud touches the tips {cite('incropera')}."
+                )
+                + " The fins and the exposed base together give the surface efficiency:"
             ),
             present.equation(
                 r"\eta_f = \dfrac{\tanh(m L_c)}{m L_c},\quad m = \sqrt{\dfrac{2h}{k\,t}},"
@@ -992,8 +1293,12 @@ def assumptions(result) -> present.Fragment:
         "section), with a uniform heat transfer coefficient over their surface, a constant "
         "conductivity, and an isothermal base at the mean base temperature (fin-efficiency "
         "model).",
-        "Dry air at the stated inlet temperature, uniform over the inlet, at the pressure of "
-        "the standard atmosphere at the stated altitude.",
+        (
+            "Dry still air at the stated ambient temperature"
+            if _is_natural(result)
+            else "Dry air at the stated inlet temperature, uniform over the inlet"
+        )
+        + ", at the pressure of the standard atmosphere at the stated altitude.",
         "Material conductivity and finish emissivity are constant, taken from the finkit "
         "material table unless the case file overrides them.",
     ]
@@ -1001,7 +1306,7 @@ def assumptions(result) -> present.Fragment:
         items += [
             "Vertical base with vertical fins in still air, free to draw air from below and "
             "release it above; no enclosure walls, chimney or neighbouring heat sources.",
-            "Air properties for convection at the film temperature (inlet air and base mean).",
+            "Air properties for convection at the film temperature (ambient air and base mean).",
             "Radiation from an isothermal sink at its mean surface temperature to surroundings "
             "at the stated surroundings temperature.",
         ]
@@ -1043,6 +1348,11 @@ def warnings_section(result) -> present.Fragment:
         A badge and a list of warnings, or a statement that there are none. [-]
     """
     if not result.warnings:
+        if not _is_heat_sink(result):
+            return present.text(
+                "No warning: the fins are one-dimensional (transverse Biot number below 0.1). "
+                "No correlation is used: the heat transfer coefficient is an input."
+            )
         return present.text(
             "No warning: every correlation was used inside its stated range and the fins are "
             "one-dimensional (transverse Biot number below 0.1)."
@@ -1089,7 +1399,7 @@ def headline(result) -> present.Fragment:
     nominal_ok = margin >= required
     ok = result.status == "pass"
     verdict = (
-        f"At {_q(power, 'power', 'W')} with {_c(t_in)} inlet air the {node} reaches "
+        f"At {_q(power, 'power', 'W')} with {_c(t_in)} {_air(result)} the {node} reaches "
         f"{_c(t_node)}: {_k(margin)} below the {_c(inputs.limit_temperature)} limit"
     )
     verdict += (
@@ -1105,7 +1415,9 @@ def headline(result) -> present.Fragment:
             f"one is '{gov.name}': {_k(gov.margin)} margin, {gov.status}. The overall status "
             "is that of the governing scenario."
         )
-    margin_share = f"{margin / rise * 100:.1f} % of the rise above inlet air" if rise > 0 else "—"
+    margin_share = (
+        f"{margin / rise * 100:.1f} % of the rise above {_air(result)}" if rise > 0 else "—"
+    )
     allowable_power = r["allowable_power"]
     rows = [
         (
@@ -1189,15 +1501,19 @@ def node_table(result) -> present.Fragment:
             (limit_text + "; " if node == "base" else "") + "hottest sink surface",
         ),
         ("Base, mean (fin roots)", sol.base_temperature, ""),
-        ("Fin tip (fin in the array, referred to the inlet air)", sol.fin_tip_temperature, ""),
+        (
+            f"Fin tip (fin in the array, referred to the {_air(result)})",
+            sol.fin_tip_temperature,
+            "",
+        ),
     ]
     if not _is_natural(result):
         rows.append(("Outlet air (mixed mean, through the fins)", sol.outlet_air_temperature, ""))
-    rows.append(("Inlet air", sol.inlet_air_temperature, "stated"))
+    rows.append((f"{_air(result, True)}", sol.inlet_air_temperature, "stated"))
     body = [(name, _c(_f(t)), _k(_f(t) - t_in), remark) for name, t, remark in rows]
     return present.html_table(
         body,
-        header=("Node", "Temperature", "Rise above inlet air", "Remark"),
+        header=("Node", "Temperature", f"Rise above {_air(result)}", "Remark"),
         caption=f"Node temperatures at the stated power {_q(_f(sol.power), 'power', 'W')}.",
     )
 
@@ -1225,7 +1541,7 @@ def resistance_table(result) -> present.Fragment:
         ("Interface R_int", sol.interface_resistance, "case file, over the footprint"),
         ("Spreading R_sp", sol.spreading_resistance, "Song, Lee & Au"),
         ("Base conduction R_base", sol.base_conduction_resistance, "t_b / (k A_base)"),
-        ("Sink to inlet air R_sink", sol.sink_resistance, sink_model),
+        (f"Sink to {_air(result)} R_sink", sol.sink_resistance, sink_model),
     ]
     rows = [
         (
@@ -1239,7 +1555,7 @@ def resistance_table(result) -> present.Fragment:
     ]
     rows.append(
         (
-            present.Fragment("<strong>Total, junction to inlet air</strong>"),
+            present.Fragment(f"<strong>Total, junction to {_air(result)}</strong>"),
             _res(total),
             _k(power * total),
             _pct(100.0),
@@ -1249,7 +1565,7 @@ def resistance_table(result) -> present.Fragment:
     return present.html_table(
         rows,
         header=("Resistance", "Value", "ΔT at stated power", "Share", "Model"),
-        caption="Thermal resistances in series, junction to inlet air.",
+        caption=f"Thermal resistances in series, junction to {_air(result)}.",
     )
 
 
@@ -1374,7 +1690,7 @@ def plot_fin_profile(result):
             color=COLOURS["air"],
             linestyle="-.",
             linewidth=1.3,
-            label=f"Inlet air {_c(_f(sol.inlet_air_temperature))}",
+            label=f"{_air(result, True)} {_c(_f(sol.inlet_air_temperature))}",
         )
         if not _is_natural(result):
             ax.axhline(
@@ -1384,7 +1700,10 @@ def plot_fin_profile(result):
                 linewidth=1.3,
                 label=f"Outlet air {_c(_f(sol.outlet_air_temperature))}",
             )
-        _limit_lines(ax, result)
+        if result.inputs.limit_node == "base":
+            # The limit applies to metal only when it is the base's; a junction or case limit
+            # drawn over fin temperatures would be read as a fin limit.
+            _limit_lines(ax, result)
         ax.set_xlabel("Distance from the fin root [mm]")
         ax.set_ylabel("Temperature [°C]")
         ax.set_xlim(0, x_mm[-1])
@@ -1413,8 +1732,12 @@ def figure_fin_profile(result) -> present.Fragment:
             result,
             "fin_profile",
             "Temperature along one fin of the array at the stated power: area-mean h, mean base "
-            f"temperature at the root, tip {tip}, referred to the inlet air. Near the outlet "
-            "the air is warmer and the fin correspondingly hotter.",
+            f"temperature at the root, tip {tip}, referred to the {_air(result)}."
+            + (
+                ""
+                if _is_natural(result)
+                else " Near the outlet the air is warmer and the fin correspondingly hotter."
+            ),
         ),
     )
 
@@ -1486,7 +1809,7 @@ def plot_allowable_vs_inlet(result):
             color=COLOURS["air"],
             linestyle="-.",
             linewidth=1.3,
-            label=f"Case inlet air {_c(_f(inputs.air.inlet_temperature))}",
+            label=f"Case {_air(result)} {_c(_f(inputs.air.inlet_temperature))}",
         )
         _limit_lines(ax, result, vertical=True)
         ax.plot(
@@ -1496,7 +1819,7 @@ def plot_allowable_vs_inlet(result):
             color=COLOURS["primary"],
             markersize=5,
         )
-        ax.set_xlabel("Inlet air temperature [°C]")
+        ax.set_xlabel(f"{_air(result, True)} temperature [°C]")
         ax.set_ylabel("Power [W]")
         ax.set_ylim(bottom=0)
         ax.set_xlim(x[0], x[-1])
@@ -1511,7 +1834,7 @@ def figure_allowable_vs_inlet(result) -> present.Fragment:
         caption=_caption(
             result,
             "allowable_vs_inlet",
-            f"Allowable power against the inlet air temperature, everything else as in the "
+            f"Allowable power against the {_air(result)} temperature, everything else as in the "
             f"case. Where the solid curve lies above the stated power the {_node(result)} stays "
             "at least the required margin below its limit. The dot is the case.",
         ),
@@ -1808,7 +2131,7 @@ def plot_resistance_breakdown(result):
         ax.set_yticks(range(len(states)), [s[0] for s in states])
         ax.invert_yaxis()
         _limit_lines(ax, result, vertical=True, offset=from_si(t_in, *_T))
-        ax.set_xlabel("Temperature rise above the inlet air [K]")
+        ax.set_xlabel(f"Temperature rise above the {_air(result)} [K]")
         ax.set_xlim(0, (inputs.limit_temperature - t_in) * 1.08)
         ax.grid(axis="y", visible=False)
         ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.22), ncol=4, fontsize=8)
@@ -1824,7 +2147,7 @@ def figure_resistance_breakdown(result) -> present.Fragment:
         caption=_caption(
             result,
             "resistance_breakdown",
-            "Temperature budget from the inlet air to the junction: the rise across each "
+            f"Temperature budget from the {_air(result)} to the junction: the rise across each "
             "resistance (labelled with its value) at the stated power and at the allowable "
             "power, against the limit and the limit less the required margin.",
         ),
@@ -1914,6 +2237,7 @@ def plot_sweep(result, name: str):
     values, case_value = _sweep_values(result, name)
     s = note_sweep(result.inputs, name, values)
     label, kind, unit = _SWEEP_AXIS[name]
+    label = label.replace("Inlet air", _air(result, True))
     x = values if not unit else from_si(values, kind, unit)
     x0 = case_value if not unit else from_si(case_value, kind, unit)
     power = _f(result.solution.power)
@@ -1966,12 +2290,14 @@ def plot_sweep(result, name: str):
 
 def figure_sweep(result, name: str) -> present.Fragment:
     """:func:`plot_sweep` embedded with its caption."""
-    label = _SWEEP_AXIS[name][0].split(" [")[0].lower()
+    label = _SWEEP_AXIS[name][0].split(" [")[0].replace("Inlet air", _air(result, True)).lower()
     extra = ""
     if _is_fan(result) and name in ("fin_count", "fin_height", "fin_thickness", "altitude"):
         extra = " The fan operating point is found again for each value."
     if name == "altitude":
-        extra += " Only the air pressure changes with altitude; the inlet temperature is kept."
+        extra += (
+            f" Only the air pressure changes with altitude; the {_air(result)} temperature is kept."
+        )
     return present.figure(
         plot_sweep(result, name),
         caption=_caption(
@@ -1983,6 +2309,43 @@ def figure_sweep(result, name: str) -> present.Fragment:
             + f".{extra}",
         ),
     )
+
+
+def plot_figures(result) -> present.Fragment:
+    """Every standard figure of a heat-sink note, with headings, at the governing condition.
+
+    Fin temperature profile; allowable power against the inlet air; allowable power and fin
+    efficiency against airflow (h in natural convection); fan and system curves (fan-driven
+    cases); the temperature budget; then the case's own sweeps.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+
+    Returns
+    -------
+    present.Fragment
+        Headings and figures. [-]
+    """
+    parts = [
+        present.heading("Temperature along a fin", 3),
+        figure_fin_profile(result),
+        present.heading(f"Allowable power and {_air(result)} temperature", 3),
+        figure_allowable_vs_inlet(result),
+        present.heading(
+            "Allowable power and fin efficiency"
+            + (" against h" if _is_natural(result) else " against airflow"),
+            3,
+        ),
+        figure_vs_airflow(result),
+    ]
+    if not _is_natural(result):
+        parts += [present.heading("Fan and system curves", 3), figure_fan_system(result)]
+    parts += [present.heading("Temperature budget", 3), figure_resistance_breakdown(result)]
+    if sweep_names(result):
+        parts += [present.heading("Sweeps listed in the case", 3), sweep_figures(result)]
+    return _join(*parts)
 
 
 def sweep_figures(result) -> present.Fragment:
@@ -2011,8 +2374,21 @@ def sweep_figures(result) -> present.Fragment:
 # Cautions
 
 
+def _conditions_where(result, test) -> list[str]:
+    table = result.conditions
+    return [] if table is None else [r.name for r in table.rows if test(r)]
+
+
+def _names(names: list[str]) -> str:
+    return ", ".join(f"'{n}'" for n in names)
+
+
 def cautions(result) -> present.Fragment:
-    """What the calculation does not cover and what a reviewer should check beyond it.
+    """What the calculation does not cover, each caution shown only where it applies.
+
+    A caution says what was done where the case covers it (a failed fan or a dusty filter
+    checked as a scenario) and what to do where it does not. Natural-convection notes say
+    nothing of fans, inlet or outlet air or shrouds.
 
     Parameters
     ----------
@@ -2022,48 +2398,108 @@ def cautions(result) -> present.Fragment:
     Returns
     -------
     present.Fragment
-        A bulleted list, with the hottest surface temperature of the sink stated. [-]
+        A bulleted list, with the hottest surface temperatures of the governing condition. [-]
     """
-    sol = result.solution
+    gov = result.governing
+    sol = gov.solution if gov is not None and gov.solution is not None else result.solution
+    where = f" in the governing condition '{gov.name}'" if gov is not None else ""
     items = [
-        f"Touchable hot surfaces: the hottest sink surface is the base under the source at "
-        f"about {_c(_f(sol.source_base_temperature))} (footprint mean; locally higher), the fins "
-        f"reach {_c(_f(sol.fin_tip_temperature))} at their tips. If the sink or anything it "
-        "heats can be touched, compare with the accessible-surface limits of the product's "
-        "safety standard for the material and contact time that apply; finkit does not judge "
-        "this."
+        f"Touchable hot surfaces: the base under the source reaches about "
+        f"{_c(_f(sol.source_base_temperature))}{where} (footprint mean; locally higher) and the "
+        f"fin tips {_c(_f(sol.fin_tip_temperature))}. If the sink or anything it heats can be "
+        "touched, compare with the accessible-surface limits of the product's safety standard "
+        "for the material and contact time that apply; finkit does not judge this."
         + (
-            " The touch-temperature check above compares them with the case's own limit."
+            " The touch-temperature check in section 2 compares them with the case's own limit."
             if getattr(_review_of(result), "touch", None) is not None
             else ""
         ),
     ]
     if not _is_natural(result):
-        items += [
-            "Fan failure: this note assumes every fan runs. With one fan stopped (N+1 designs) "
-            "the flow drops by more than that fan's share, since air can recirculate through "
-            "the stopped fan; check that case separately.",
-            "Filter clogging and dust: a loaded filter or dust on the fins raises the pressure "
-            "drop and cuts the flow; narrow fin gaps foul fastest. Keep margin on both pressure "
-            "drop and heat transfer, or run the case with a fouled allowance.",
-            "Flow bypass: air takes the easiest path. Gaps round the sink, cables or missing "
-            "blanking in the real enclosure can divert far more air than modelled.",
-        ]
+        fan = result.case.air.flow.fan
+        failed = _conditions_where(result, lambda r: "stopped" in " ".join(r.changes))
+        if fan is not None and failed:
+            items.append(
+                f"Fan failure was checked: {_names(failed)} (stopped fans taken out of the fan "
+                "combination, with the leak through them where the case gives it). A fan-fail "
+                "alarm or shutdown is still needed if the product must not run on with a "
+                "stopped fan for long; check the time it takes against the product's policy."
+            )
+        elif fan is not None and fan.count > 1:
+            items.append(
+                f"Fan failure was not checked: the case has {fan.count} fans and no scenario "
+                "with a stopped fan. With one fan stopped (N+1 designs) the flow drops by more "
+                "than that fan's share, since air can recirculate through the stopped fan; add "
+                "a scenario with failed_fans."
+            )
+        elif fan is not None:
+            items.append(
+                "Fan failure: the case has one fan; if it stops the sink is left to natural "
+                "convection and will overheat at this power. The product needs fan monitoring "
+                "and a shutdown or power reduction."
+            )
+        else:
+            items.append(
+                "Airflow is stated, not computed from a fan: confirm it at the worst case "
+                "(fan ageing, supply voltage, a stopped fan, a loaded filter)."
+            )
+        dusty = _conditions_where(
+            result, lambda r: any(w in " ".join(r.changes) for w in ("filter", "dust", "fouling"))
+        )
+        if dusty:
+            items.append(
+                f"Dust and filter loading were checked: {_names(dusty)}. Heavier loading than "
+                "assumed there, or narrow fin gaps, foul faster; keep the maintenance interval "
+                "that the scenario assumes."
+            )
+        else:
+            items.append(
+                "Dust and filter loading were not checked: a loaded filter or dust on the fins "
+                "raises the pressure drop and cuts the flow, and narrow fin gaps foul fastest. "
+                "Add a scenario with a filter, deposit_thickness or fouling_resistance."
+            )
+        bypass = result.inputs.bypass
+        items.append(
+            "Flow bypass: air takes the easiest path. "
+            + (
+                "The modelled gaps round the sink divert part of the flow (air side, section 1); "
+                if bypass is not None
+                else "No bypass gap is stated, so all the air is taken to pass through the fins; "
+            )
+            + "cables, missing blanking or a looser enclosure can divert far more."
+        )
     else:
         items += [
             "Natural convection needs free inflow below and outflow above the fins. Covers, "
-            "nearby walls, a horizontal mounting or neighbouring hot parts change h strongly; "
-            "radiation depends on the finish staying as specified.",
+            "nearby walls, another mounting orientation or neighbouring hot parts change h "
+            "strongly; radiation depends on the finish staying as specified.",
             "Dust on the fins and finish ageing lower both convection and radiation.",
         ]
     items += [
-        "Correlations carry a scatter of typically ±10-20 % in h"
+        f"Correlations carry a scatter of typically {H_SCATTER} in h"
         + ("" if _is_natural(result) else " and more in pressure drop")
-        + "; judge the margin against the temperature rise above the inlet air, not the "
-        "absolute temperature.",
-        "Confirm by test: measure the case (or junction) temperature rise on a prototype in "
-        "the real enclosure at the stated power, and compare the rise, not the absolute "
-        "temperature.",
+        + "; judge the margin against the temperature rise above the "
+        + ("surrounding air" if _is_natural(result) else "inlet air")
+        + ", not the absolute temperature.",
+    ]
+    calibration = getattr(_review_of(result), "calibration", None)
+    if calibration is None:
+        items.append(
+            "Confirm by test: measure the case (or junction) temperature rise on a prototype "
+            "in the real enclosure at the stated power, and compare the rise, not the absolute "
+            "temperature."
+        )
+    else:
+        items.append(
+            f"Test data were compared ({len(calibration.names)} point(s), section 2)"
+            + (
+                "; the model reads low against them, so the calibrated result on page 1 is the "
+                "one to sign against unless the difference is explained."
+                if calibration.reads_low
+                else "."
+            )
+        )
+    items += [
         "Interface materials: datasheet resistances are typical values at laboratory pressure; "
         "use the real mounting pressure and a tolerance.",
         "This note is an engineering calculation aid. It does not replace local codes, the "
@@ -2581,7 +3017,7 @@ def _scenario_section(result) -> list[Any]:
             present.badge(row.status == "pass"),
         ]
         rows.append(cells)
-    header = ["Scenario", "Inlet air"] + (["Power"] if show_power else [])
+    header = ["Scenario", f"{_air(result, True)}"] + (["Power"] if show_power else [])
     if forced:
         header.append("Total flow")
     header += [f"{_node_name(result)}", "Margin", "Allowable power", "Status"]
@@ -2693,7 +3129,7 @@ def plot_calibration(result):
     low = float(min(measured.min(), stated.min(), fitted.min())) - 3.0
     high = float(max(measured.max(), stated.max(), fitted.max())) + 3.0
     with _style():
-        fig, axes = _figure((5.2, 4.2))
+        fig, axes = _figure((4.8, 3.5))
         ax = axes[0, 0]
         ax.plot(
             [low, high],
@@ -2926,7 +3362,7 @@ def tolerance_table(result) -> present.Fragment:
         nominal = nominal_value(result.inputs, name)
         rows.append(
             (
-                _TOLERANCE_NAMES.get(name, name),
+                _TOLERANCE_NAMES.get(name, name).replace("Inlet air", _air(result, True)),
                 _tolerance_distribution(tol),
                 _tolerance_spread(name, tol),
                 _tolerance_value(name, nominal),
@@ -2987,7 +3423,11 @@ def monte_carlo_table(result) -> present.Fragment:
     )
     rows: list[tuple[Any, ...]] = [
         ("Samples", f"{_count_text(mc.count)} ({sampling})", ""),
-        ("Nominal: every input at its case value", _c(nominal), _k(limit - nominal)),
+        (
+            "Deterministic: every input at its value in the governing condition",
+            _c(nominal),
+            _k(limit - nominal),
+        ),
         (
             "Mean of the samples (standard deviation)",
             f"{_c(mean)} (σ{_NBSP}{_k(mc.std())})",
@@ -3026,33 +3466,27 @@ def _uncertainty_reading(result) -> list[Any]:
     u = _uncertainty_of(result)
     mc = u.monte_carlo
     items = [
-        "They are the spread of this model's answer when its inputs vary as the table says, "
-        "each independently of the others. The tolerances are the user's, from the case file; "
-        "finkit does not supply them, and the percentiles are only as good as they are.",
-        "They leave out what the table leaves out: the choice of correlation and of the "
-        "one-dimensional chain (see the spread between correlations and the model-form check "
-        "below), the tolerances of the geometry, and inputs that move together (a hot day "
-        "raises the inlet air and often the power; inputs that rise together widen the "
-        "spread).",
+        "They are the spread of this model's answer when the user's tolerances (from the case "
+        "file) vary independently; they leave out the choice of correlation and of the "
+        "one-dimensional chain (see the correlation spread and the model-form check), the "
+        "geometry tolerances and inputs that move together.",
     ]
     if "heat_transfer" in mc.tolerances:
         items.append(
-            "Convection correlations scatter by about ±15-25 % in h against their own data "
+            f"Convection correlations scatter by about {H_SCATTER} in h against their own data "
             "(common practice; no source gives one number): compare the h tolerance above "
             "with that."
         )
     else:
         items.append(
             "The case gives no tolerance on the air-side h. Convection correlations scatter by "
-            "about ±15-25 % in h against their own data (common practice; no source gives one "
-            "number), so the spread above is too narrow."
+            f"about {H_SCATTER} in h against their own data (common practice; no source gives "
+            "one number), so the spread above is too narrow."
         )
     items += [
         f"A zero count is not a zero probability: {_count_text(mc.count)} samples cannot show a "
-        f"probability much below 3/n = {_sig(3.0 / mc.count * 100, 2)} %, which is why each "
-        "probability comes with its 95 % upper bound.",
-        "The limit with its required margin still governs the design; the percentiles say how "
-        "close the tolerances bring the result to it, not that a unit is safe.",
+        f"probability much below 3/n = {_sig(3.0 / mc.count * 100, 2)} %, hence the 95 % upper "
+        "bounds. The limit with its required margin still governs the design.",
     ]
     return [present.text("What these numbers mean, and what they do not:"), _bullets(items)]
 
@@ -3084,9 +3518,11 @@ def uncertainty_section(result) -> present.Fragment:
     nominal = mc.summary()["nominal_limit_node_temperature"]
     above = round(mc.probability_exceeding_usable_limit * mc.count)
     statement = (
-        f"With the inputs scattered as in the table below, the {_node(result)} at the stated power "
-        f"is at or below {_c(pct[50.0])} in half of {_count_text(mc.count)} samples and at or "
-        f"below {_c(pct[95.0])} in 95 % of them (nominal {_c(nominal)}). "
+        f"Run at the governing condition '{u.condition}' (the tolerances spread about its "
+        f"inputs). With the inputs scattered as in the table below, the {_node(result)} at the "
+        f"stated power is at or below {_c(pct[50.0])} in half of {_count_text(mc.count)} "
+        f"samples and at or below {_c(pct[95.0])} in 95 % of them (deterministic "
+        f"{_c(nominal)}). "
         + (
             f"No sample exceeds the limit less the required margin ({_c(usable)})"
             if above == 0
@@ -3152,7 +3588,7 @@ def plot_uncertainty_distribution(result):
             color=COLOURS["secondary"],
             linestyle="-.",
             linewidth=1.6,
-            label=f"Nominal {_c(nominal)}",
+            label=f"Deterministic {_c(nominal)}",
         )
         for p, style in ((95.0, (0, (4, 2))), (99.0, (0, (1, 1.5)))):
             ax.axvline(
@@ -3238,8 +3674,9 @@ def plot_tornado(result):
                 ha="left",
                 fontsize=8.5,
             )
+            name = _TORNADO_NAMES.get(bar.name, bar.name).replace("Inlet air", _air(result, True))
             labels.append(
-                f"{_TORNADO_NAMES.get(bar.name, bar.name)}\n"
+                f"{name}\n"
                 f"{_tolerance_value(bar.name, bar.low_value)} to "
                 f"{_tolerance_value(bar.name, bar.high_value)}"
             )
@@ -3247,7 +3684,7 @@ def plot_tornado(result):
             nominal_c,
             color="black",
             linewidth=1.1,
-            label=f"Nominal {_c(tornado.nominal_temperature)}",
+            label=f"Deterministic {_c(tornado.nominal_temperature)}",
         )
         ax.set_yticks(range(len(bars)), labels, fontsize=8)
         ax.set_ylim(len(bars) - 0.5, -0.5)  # largest swing on top

@@ -714,7 +714,7 @@ def scenario_changes(scenario: Scenario) -> tuple[str, ...]:
     if s.power_factor is not None:
         out.append(f"power x{s.power_factor:.3g}")
     if s.failed_fans:
-        out.append(f"{s.failed_fans} fan(s) stopped")
+        out.append(f"{s.failed_fans} fan{'s' if s.failed_fans > 1 else ''} stopped")
     for name, label in (
         ("fan_speed_ratio", "fan speed"),
         ("fan_pressure_factor", "fan pressure"),
@@ -725,11 +725,13 @@ def scenario_changes(scenario: Scenario) -> tuple[str, ...]:
         if value is not None:
             out.append(f"{label} x{value:.3g}")
     if s.filter is not None:
-        out.append(f"filter {s.filter.pressure_drop:.3g} Pa at {s.filter.volume_flow:.3g} m^3/s")
+        out.append(
+            f"filter {s.filter.pressure_drop:.3g} Pa at {s.filter.volume_flow:.3g} m\u00b3/s"
+        )
     if s.deposit_thickness is not None:
         out.append(f"dust layer {s.deposit_thickness * 1e3:.3g} mm")
     if s.fouling_resistance is not None:
-        out.append(f"fouling {s.fouling_resistance:.3g} K m^2/W")
+        out.append(f"fouling {s.fouling_resistance:.3g} K\u00b7m\u00b2/W")
     return tuple(out)
 
 

@@ -212,14 +212,14 @@ def test_template_places_the_section_after_the_review_checks():
     sources = [c.source.strip() for c in cells]
     start = sources.index("report.review_section(result)") + 1
     assert sources[start] == "report.figure_calibration(result)"
-    assert sources[start + 1].startswith("## 7. Uncertainty and model form")
+    assert sources[start + 1].startswith("## 3. Uncertainty and model form")
     assert sources[start + 2 : start + 6] == [
         "report.uncertainty_section(result)",
         "report.figure_uncertainty_distribution(result)",
         "report.figure_tornado(result)",
         "report.model_form_section(result)",
     ]
-    assert sources[start + 6].startswith("## 8. Plots")
+    assert sources[start + 6].startswith("## 4. Plots")
 
 
 # ------------------------------------------------------------------------------------------
@@ -246,7 +246,7 @@ def test_histogram_marks_limit_margin_and_nominal(toleranced):
     usable = limit_c - mc.required_margin
     assert any(abs(x - usable) < 1e-9 for x in _vertical_at(fig, "Limit less required margin"))
     nominal = _c(toleranced.solution.junction_temperature)  # the limit node is the junction
-    assert _vertical_at(fig, "Nominal") == [pytest.approx(nominal, abs=1e-9)]
+    assert _vertical_at(fig, "Deterministic") == [pytest.approx(nominal, abs=1e-9)]
     # the whole limit is in view
     low, high = fig.axes[0].get_xlim()
     assert low < nominal < limit_c < high
@@ -286,7 +286,7 @@ def test_tornado_is_sorted_and_centred_on_the_nominal(toleranced):
     assert swings == sorted(swings, reverse=True)  # largest swing first
     bottom, top = ax.get_ylim()
     assert bottom > top  # row 0 (largest swing) drawn at the top
-    assert _vertical_at(ax.figure, "Nominal") == [pytest.approx(nominal, abs=1e-9)]
+    assert _vertical_at(ax.figure, "Deterministic") == [pytest.approx(nominal, abs=1e-9)]
 
 
 # ------------------------------------------------------------------------------------------

@@ -230,7 +230,7 @@ def test_note_holds_title_results_and_plots_without_code(rendered, kind, path):
     case = yaml.safe_load(path.read_text(encoding="utf-8"))
     assert notes.check_note_html(html) == []
     assert case["title_block"]["part"] in html  # title block
-    assert "5. Results" in html and "Cautions" in html and "Method" in html
+    assert "Results" in html and "Cautions" in html and "Method" in html
     assert re.search(r"fk-badge-(pass|fail|info)", html)
     plots = re.findall(r'<img[^>]*src="data:image/png;base64,', html)
     assert len(plots) >= MIN_PLOTS[kind]
