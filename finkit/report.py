@@ -134,6 +134,13 @@ _NODE_NAMES = {"junction": "Junction", "case": "Case", "base": "Base under the s
 # Small helpers (formatting, markup from escaped parts)
 
 
+def _fan_changes(result) -> str:
+    """`` (1 fan stopped)`` when the governing condition changes the fans, else empty."""
+    gov = getattr(result, "governing", None)
+    changes = [c for c in getattr(gov, "changes", ()) if "fan" in c]
+    return f" ({', '.join(changes)})" if changes else ""
+
+
 def _air(result, capital: bool = False) -> str:
     """The air the sink is referred to: inlet air (forced flow) or ambient air (still air)."""
     word = "ambient air" if _is_natural(result) else "inlet air"
@@ -332,7 +339,22 @@ def _limit_lines(ax, result, *, vertical=False, offset=0.0, label_node=True):
         )
 
 
+#: Figures drawn at the governing condition (their caption names it when it is a scenario).
+_AT_GOVERNING = {
+    "fin_profile",
+    "allowable_vs_inlet",
+    "vs_airflow",
+    "fan_system",
+    "resistance_breakdown",
+    "uncertainty_distribution",
+    "tornado",
+}
+
+
 def _caption(result, key: str, text: str) -> str:
+    gov = getattr(result, "governing", None)
+    if gov is not None and gov.name != "nominal" and (key in _AT_GOVERNING or key[:6] == "sweep:"):
+        text += f" Operating condition: '{gov.name}' (governing)."
     return f"Figure {_figure_number(result, key)}. {text}"
 
 
@@ -1998,7 +2020,8 @@ def plot_fan_system(result):
                 qf,
                 curves["at_inlet"],
                 color=COLOURS["secondary"],
-                label=f"Fan at inlet air density {curves['inlet_density']:.3f} kg/m³",
+                label=f"Fan{_fan_changes(result)} at inlet air density "
+                f"{curves['inlet_density']:.3f} kg/m³",
             )
             if abs(curves["inlet_density"] - curves["rating_density"]) > 1e-3:
                 ax.plot(
@@ -2021,7 +2044,8 @@ def plot_fan_system(result):
             color="black",
             markersize=6,
             zorder=5,
-            label=f"{point_label} {_q(q_op, 'volume_flow', 'CFM')}, {_q(dp_op, 'pressure', 'Pa')}",
+            label=f"{point_label} {_sig(from_si(q_op, 'volume_flow', 'CFM'))} CFM, "
+            f"{_sig(dp_op)} Pa",
         )
         if needed is not None:
             ax.axvline(
@@ -2045,7 +2069,7 @@ def plot_fan_system(result):
         ax.set_xlim(0, q_max)
         ax.set_ylim(bottom=0)
         _cfm_axis(ax)
-        ax.legend(loc="upper right" if fan is not None else "upper left")
+        ax.legend(loc="upper right" if fan is not None else "upper left", fontsize=8)
     return fig
 
 
