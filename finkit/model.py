@@ -524,6 +524,13 @@ def solve_condition(inputs: SinkInputs) -> ConditionState:
     )
 
 
+#: Warning of a heat-sink case that checks only the condition as stated.
+NO_SCENARIO_WARNING = (
+    "scenarios: none given, so only the case as stated was checked; a sign-off usually needs "
+    "the worst case too (hottest inlet air, highest site, a stopped fan, a loaded filter)"
+)
+
+
 def _merged_warnings(table, flags) -> list[str]:
     """Warnings of every condition, governing first, one per quantity; others labelled."""
     gov = table.governing_row
@@ -555,6 +562,8 @@ def run_case(case) -> CaseResult:
     governing, nominal = table.governing_row, table.rows[0]
     review = _review(case, inputs, governing.inputs, table, calibration)
     warnings = _merged_warnings(table, review.flags)
+    if not scenarios:
+        warnings.append(NO_SCENARIO_WARNING)
     if calibration is not None and calibration.reads_low:
         warnings.insert(0, calibration.warning)
     return CaseResult(

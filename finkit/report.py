@@ -451,7 +451,11 @@ def _ranked_warnings(result) -> list[str]:
     def rank(w: str) -> int:
         if w.startswith("calibration:"):
             return 0
-        if "checks nothing harsher" in w or "milder than the nominal" in w:
+        if (
+            "checks nothing harsher" in w
+            or "milder than the nominal" in w
+            or w.startswith("scenarios: none given")
+        ):
             return 1
         flags = getattr(_review_of(result), "flags", ()) or ()
         return 2 if w in flags else 3

@@ -139,6 +139,15 @@ def test_least_allowable_power_condition_is_named_separately():
     assert summary["least_allowable_power_condition"] == "hot-day"
 
 
+def test_a_case_without_scenarios_governs_itself_and_says_so():
+    data = lean(raw())
+    data.pop("scenarios")
+    result = run_case(load_case(data))
+    assert result.governing.name == "nominal" and len(result.conditions.rows) == 1
+    assert result.results == result.nominal.results
+    assert any(w.startswith("scenarios: none given") for w in result.warnings)
+
+
 # --------------------------------------------------------------------------------------------
 # Scenarios that follow the variant
 
