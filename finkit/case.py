@@ -1186,3 +1186,11 @@ def _rounded(value):
     if isinstance(value, list):
         return [_rounded(v) for v in value]
     return value
+
+
+def read_case(source) -> dict:
+    """A case as entered (a mapping, unit strings kept) from a path, YAML text or a mapping.
+
+    Reads and parses only; :func:`load_case` validates.
+    """
+    return _read(source)[0]

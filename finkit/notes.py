@@ -1019,10 +1019,20 @@ def template_default_case(template: str | os.PathLike) -> dict:
     import nbformat
 
     nb = nbformat.read(Path(template), as_version=4)
-    cell = next(c for c in nb.cells if "parameters" in c.metadata.get("tags", []))
+    cell, name = _default_case_cell(nb)
     namespace: dict = {}
     exec(compile(cell.source, str(template), "exec"), namespace)  # our own template file
-    return namespace["case"]
+    return namespace[name]
+
+
+def _default_case_cell(nb):
+    """(cell, variable) holding a template's default case: the cell tagged ``demo-case``
+    (``demo_case = {...}``, note templates) or else the ``parameters`` cell (``case = {...}``)."""
+    for tag, name in (("demo-case", "demo_case"), ("parameters", "case")):
+        for cell in nb.cells:
+            if tag in cell.metadata.get("tags", []):
+                return cell, name
+    raise ValueError("template has neither a demo-case nor a parameters cell")
 
 
 def sync_template_defaults() -> list[Path]:
@@ -1039,10 +1049,10 @@ def sync_template_defaults() -> list[Path]:
         if template_default_case(path) == case:
             continue
         nb = nbformat.read(path, as_version=4)
-        cell = next(c for c in nb.cells if "parameters" in c.metadata.get("tags", []))
-        head, _, rest = cell.source.partition("case = ")
+        cell, name = _default_case_cell(nb)
+        head, _, rest = cell.source.partition(f"{name} = ")
         tail = rest[rest.index("\nnote_time") :] if "\nnote_time" in rest else ""
-        cell.source = head + "case = " + pprint.pformat(case, sort_dicts=False, width=96) + tail
+        cell.source = head + f"{name} = " + pprint.pformat(case, sort_dicts=False, width=96) + tail
         atomic_write(path, nbformat.writes(nb))
         changed.append(path)
     return changed

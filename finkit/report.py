@@ -29,6 +29,7 @@ import numpy as np
 
 from finkit import present
 from finkit.constants import ZERO_CELSIUS
+from finkit.parameters import case_from_parameters
 from finkit.units import format_quantity, from_si
 
 __all__ = [
@@ -74,6 +75,7 @@ __all__ = [
     "sweep_names",
     "title_block",
     "verdict_page",
+    "case_from_parameters",
     "plot_figures",
     "at_governing",
     "H_SCATTER",

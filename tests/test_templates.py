@@ -160,23 +160,43 @@ def test_markdown_cells_hold_prose_only(kind):
             assert not cell.get("attachments"), "attachments in a template"
 
 
-@pytest.mark.parametrize("kind", sorted(notes.TEMPLATES_BY_KIND))
-def test_parameters_cell_holds_the_demo_case_as_entered(kind):
-    cells = _cells(kind)
-    tagged = [c for c in cells if _is_parameters(c)]
-    assert len(tagged) == 1
-    namespace: dict = {}
-    tree = ast.parse(tagged[0].source)
-    assigned = {
+def _assigned(source: str) -> set[str]:
+    tree = ast.parse(source)
+    return {
         target.id
         for node in tree.body
         if isinstance(node, ast.Assign | ast.AnnAssign)
         for target in (node.targets if isinstance(node, ast.Assign) else [node.target])
     }
-    assert assigned == {"case", "note_time"}
-    exec(compile(tree, "parameters", "exec"), {}, namespace)  # literals only (checked above)
+
+
+@pytest.mark.parametrize("kind", sorted(notes.TEMPLATES_BY_KIND))
+def test_parameters_cell_declares_the_case_its_keys_and_the_overrides(kind):
+    from finkit.parameters import CASE_KEYS, OVERRIDES
+
+    cells = _cells(kind)
+    tagged = [c for c in cells if _is_parameters(c)]
+    assert len(tagged) == 1
+    expected = {"case", "note_time", *CASE_KEYS}
+    if kind == "heat-sink":
+        expected |= set(OVERRIDES)
+    assert _assigned(tagged[0].source) == expected
+    namespace: dict = {}
+    exec(compile(tagged[0].source, "parameters", "exec"), {}, namespace)  # literals only
     assert namespace["note_time"] == ""
-    case = namespace["case"]
+    assert all(namespace[name] is None for name in expected - {"note_time"})
+
+
+@pytest.mark.parametrize("kind", sorted(notes.TEMPLATES_BY_KIND))
+def test_demo_cell_holds_the_demo_case_as_entered(kind):
+    cells = _cells(kind)
+    demo_cells = [c for c in cells if "demo-case" in c.get("metadata", {}).get("tags", [])]
+    assert len(demo_cells) == 1
+    assert cells.index(demo_cells[0]) < cells.index(next(c for c in cells if _is_parameters(c)))
+    assert _assigned(demo_cells[0].source) == {"demo_case"}
+    namespace: dict = {}
+    exec(compile(demo_cells[0].source, "demo", "exec"), {}, namespace)  # literals only
+    case = namespace["demo_case"]
     demo = yaml.safe_load((DEMO_CASES / DEFAULT_DEMO[kind]).read_text(encoding="utf-8"))
     assert (case["case_id"], case["kind"]) == (demo["case_id"], kind)
     assert isinstance(case["title_block"], dict)
