@@ -231,7 +231,7 @@ def _lab(args) -> int:
             "finkit lab: JupyterLab is not installed in this environment; install it with "
             f"'{sys.executable} -m pip install jupyterlab' (or use --copy-only)"
         )
-    source = Path(__file__).resolve().parent.parent / "templates"
+    source = Path(__file__).resolve().parent / "templates"
     target = Path(args.dir)
     notebooks = sorted(source.glob("*.ipynb"))
     if not notebooks:
@@ -255,6 +255,8 @@ def _lab(args) -> int:
     if hasattr(os, "geteuid") and os.geteuid() == 0:
         # Containers and CI machines often run as root, which JupyterLab refuses by default.
         command.append("--allow-root")
+    extra = list(args.jupyter_args or [])
+    command += extra[1:] if extra[:1] == ["--"] else extra
     return subprocess.call(command)
 
 
@@ -368,6 +370,12 @@ def build_parser() -> argparse.ArgumentParser:
     lab.add_argument("--no-browser", action="store_true", help="do not open a browser")
     lab.add_argument(
         "--copy-only", action="store_true", help="copy the templates, do not start JupyterLab"
+    )
+    lab.add_argument(
+        "jupyter_args",
+        nargs=argparse.REMAINDER,
+        metavar="-- JUPYTER_ARGS",
+        help="passed on to JupyterLab, e.g. finkit lab -- --port 8890 --ip 0.0.0.0",
     )
     lab.set_defaults(func=_lab)
 

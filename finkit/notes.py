@@ -81,9 +81,9 @@ KERNEL_NAME = "finkit"
 PAPER_SIZES = ("A4", "letter")
 
 _PACKAGE_DIR = Path(__file__).resolve().parent
-# finkit is installed from its source tree (``make setup``: editable install), so the templates
-# are read where a user can open them in JupyterLab: ``<repo>/templates``.
-_TEMPLATE_DIR = _PACKAGE_DIR.parent / "templates"
+# The note templates are package data (``finkit/templates``; ``<repo>/templates`` links to them so
+# they can be opened in JupyterLab from a source checkout), so an installed wheel finds them too.
+_TEMPLATE_DIR = _PACKAGE_DIR / "templates"
 _HTML_TEMPLATE_NAME = "html_template"
 
 _CASE_ID = re.compile(r"[A-Za-z0-9][A-Za-z0-9._-]{0,99}")
@@ -1045,7 +1045,7 @@ def sync_template_defaults() -> list[Path]:
     changed = []
     for name, demo in TEMPLATE_DEFAULTS.items():
         path = _TEMPLATE_DIR / name
-        case = yaml.safe_load((_TEMPLATE_DIR.parent / demo).read_text(encoding="utf-8"))
+        case = yaml.safe_load((_PACKAGE_DIR.parent / demo).read_text(encoding="utf-8"))
         if template_default_case(path) == case:
             continue
         nb = nbformat.read(path, as_version=4)

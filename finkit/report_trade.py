@@ -98,8 +98,8 @@ _NBSP = "\u00a0"
 
 
 def template_path() -> Path:
-    """The trade-study note template, ``<source tree>/templates/trade_study_note.ipynb``."""
-    return Path(__file__).resolve().parent.parent / "templates" / TEMPLATE
+    """The trade-study note template, ``finkit/templates/trade_study_note.ipynb`` (package data)."""
+    return Path(__file__).resolve().parent / "templates" / TEMPLATE
 
 
 # --------------------------------------------------------------------------------------------
