@@ -487,11 +487,17 @@ class Air(_Model):
 
 
 class Limit(_Model):
-    """Temperature limit [K] at a node, with a required margin [K] below it."""
+    """Temperature limit [K] at a node, with a required margin [K] below it.
+
+    ``requirement_id``: optional identifier of the requirement the limit comes from (as a
+    requirements or product-lifecycle tool names it), carried to results.json and the batch
+    overview.
+    """
 
     node: Literal["junction", "case", "base"]
     temperature: Temperature
     required_margin: TemperatureDifference = 0.0
+    requirement_id: Text | None = None
 
 
 class SingleFinLimit(_Model):

@@ -124,7 +124,7 @@ def _governing_lines(payload: dict) -> list[str]:
         o = other["results"]
         which = "calibrated" if other.get("is_calibrated") else "uncalibrated"
         lines.append(
-            f"  {which} (multiplier {calibration['multiplier']:.3g} on "
+            f"  {which} (multiplier {_value(calibration, 'multiplier'):.3g} on "
             f"{calibration['target'].replace('_', ' ')}): limit node "
             f"{_value(o, 'limit_node_temperature'):.1f} degC, margin "
             f"{_value(o, 'temperature_margin'):.3g} K, allowable power "
@@ -260,6 +260,14 @@ def _lab(args) -> int:
     return subprocess.call(command)
 
 
+def _schema(args) -> int:
+    from finkit.json_schema import case_schema, results_schema
+
+    schema = case_schema() if args.which == "case" else results_schema()
+    print(json.dumps(schema, indent=2, ensure_ascii=False))
+    return EXIT_PASS
+
+
 def _status_of(results_json) -> str | None:
     """The case status recorded in a note's results.json (``None`` if it cannot be read)."""
     if results_json is None:
@@ -358,6 +366,15 @@ def build_parser() -> argparse.ArgumentParser:
         "(default: the template of the case's kind)",
     )
     note.set_defaults(func=_note)
+
+    schema = sub.add_parser(
+        "schema",
+        help="print the JSON Schema of a case file or of results.json",
+        description="Print the JSON Schema (draft 2020-12) of a case file ('case') or of a "
+        "note's results.json ('results'), for editors and other tools.",
+    )
+    schema.add_argument("which", choices=("case", "results"))
+    schema.set_defaults(func=_schema)
 
     lab = sub.add_parser(
         "lab",

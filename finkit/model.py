@@ -99,6 +99,16 @@ class SinkInputs:
 RESULTS_SCHEMA_VERSION = 2
 
 
+def _finite(value) -> float | None:
+    """A float for JSON, None for NaN or infinity (strict JSON has neither)."""
+    value = float(value)
+    return value if np.isfinite(value) else None
+
+
+def _celsius(kelvin) -> dict[str, Any]:
+    return {"value": float(kelvin) - ZERO_CELSIUS, "unit": "degC"}
+
+
 def _json_results(values: dict[str, float | None]) -> dict[str, dict[str, Any]]:
     return {
         name: {"value": None if value is None else float(value), "unit": RESULT_UNITS.get(name, "")}
@@ -181,6 +191,14 @@ class CaseResult:
             "finkit_version": finkit.__version__,
         }
         table = self.conditions
+        limit = getattr(self.case, "limit", None)
+        if limit is not None:
+            out["limit"] = {
+                "node": limit.node,
+                "temperature": {"value": limit.temperature - ZERO_CELSIUS, "unit": "degC"},
+                "required_margin": {"value": limit.required_margin, "unit": "K"},
+                "requirement_id": getattr(limit, "requirement_id", None),
+            }
         if table is not None:
             out["governing"] = table.governing_summary()
         out["warnings"] = list(self.warnings)
@@ -231,16 +249,16 @@ class ReviewResult:
         if self.touch is not None:
             out["touch"] = {
                 "hottest_surface": self.touch.hottest_surface,
-                "hottest_temperature": self.touch.hottest_temperature - ZERO_CELSIUS,
-                "limit_temperature": self.touch.limit_temperature - ZERO_CELSIUS,
+                "hottest_temperature": _celsius(self.touch.hottest_temperature),
+                "limit_temperature": _celsius(self.touch.limit_temperature),
                 "status": self.touch.status,
             }
         if self.calibration is not None:
             c = self.calibration
             out["calibration"] = {
                 "target": c.target,
-                "multiplier": c.multiplier,
-                "standard_error": c.standard_error,
+                "multiplier": {"value": c.multiplier, "unit": "1"},
+                "standard_error": {"value": _finite(c.standard_error), "unit": "1"},
                 "is_applied": c.is_applied,
                 "mean_underprediction": {"value": c.mean_underprediction, "unit": "K"},
                 "measurement_uncertainty": {"value": c.measurement_uncertainty, "unit": "K"},
@@ -255,8 +273,11 @@ class ReviewResult:
             out["correlation_spread"] = [
                 {
                     "model": r.label,
-                    "junction_temperature": r.junction_temperature - ZERO_CELSIUS,
-                    "allowable_power": r.allowable_power,
+                    "junction_temperature": {
+                        "value": r.junction_temperature - ZERO_CELSIUS,
+                        "unit": "degC",
+                    },
+                    "allowable_power": {"value": r.allowable_power, "unit": "W"},
                 }
                 for r in self.spread.rows
             ]
@@ -285,8 +306,12 @@ class UncertaintyResult:
         """Summary for ``results.json`` (temperatures in °C, probabilities as fractions)."""
         out: dict[str, Any] = {"condition": self.condition}
         for name, value in self.monte_carlo.summary().items():
-            is_temperature = name.endswith("_temperature") and not name.startswith("std")
-            out[name] = float(value) - ZERO_CELSIUS if is_temperature else float(value)
+            if name.startswith("std"):
+                out[name] = {"value": float(value), "unit": "K"}
+            elif name.endswith("_temperature"):
+                out[name] = _celsius(value)
+            else:
+                out[name] = {"value": float(value), "unit": "1"}
         return out
 
 

@@ -142,6 +142,8 @@ class Scenario:
         Multiplier on the nominal power (relative) [-].
     combines : tuple of str
         Names of the scenarios merged into this one (:func:`combine_scenarios`) [-].
+    requirement_id : str or None
+        Identifier of the requirement the scenario checks [-].
     fan_speed_ratio : float or None
         Fan speed over rated speed, fan laws ``Q ∝ N``, ``dp ∝ N²`` [-].
     fan_pressure_factor : float or None
@@ -185,6 +187,7 @@ class Scenario:
     altitude_increase: float | None = None
     power_factor: float | None = None
     combines: tuple[str, ...] = ()
+    requirement_id: str | None = None
 
 
 #: How :func:`combine_scenarios` merges each field of the parts.
@@ -258,6 +261,7 @@ def scenarios_from_blocks(blocks) -> tuple[Scenario, ...]:
         own[b.name] = Scenario(
             name=b.name,
             description=b.description or "",
+            requirement_id=getattr(b, "requirement_id", None),
             inlet_temperature=b.inlet_temperature,
             inlet_temperature_rise=b.inlet_temperature_rise,
             surroundings_temperature=b.surroundings_temperature,
@@ -294,7 +298,8 @@ def scenarios_from_blocks(blocks) -> tuple[Scenario, ...]:
             for n in (*_ADDED, *_MULTIPLIED, *_ABSOLUTE, "failed_fans")
         ):
             parts.append(own[b.name])
-        out.append(combine_scenarios(b.name, b.description or "", parts))
+        combined = combine_scenarios(b.name, b.description or "", parts)
+        out.append(replace(combined, requirement_id=getattr(b, "requirement_id", None)))
     return tuple(out)
 
 
@@ -565,6 +570,8 @@ class ScenarioRow:
         What this condition changes from nominal, one readable item each [-].
     combines : tuple of str
         Scenarios merged into this one [-].
+    requirement_id : str or None
+        Identifier of the requirement this condition checks [-].
     """
 
     name: str
@@ -599,6 +606,7 @@ class ScenarioRow:
     altitude: float = 0.0
     changes: tuple[str, ...] = ()
     combines: tuple[str, ...] = ()
+    requirement_id: str | None = None
 
     def to_json_dict(self) -> dict:
         """One entry of ``results.json``'s ``conditions`` list (°C, K, W, SI flows)."""
@@ -609,6 +617,7 @@ class ScenarioRow:
             "description": self.description,
             "status": self.status,
             "is_governing": self.is_governing,
+            "requirement_id": self.requirement_id,
             "changes": list(self.changes),
             "combines": list(self.combines),
             "altitude": {"value": self.altitude, "unit": "m"},
@@ -664,6 +673,7 @@ class ScenarioTable:
         return {
             "condition": gov.name,
             "description": gov.description,
+            "requirement_id": gov.requirement_id,
             "reason": self.reason,
             "status": gov.status,
             "temperature_margin": {"value": gov.margin, "unit": "K"},
@@ -776,6 +786,7 @@ def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None
         altitude=float(np.max(inputs.altitude)),
         changes=() if scenario is None else scenario_changes(scenario),
         combines=() if scenario is None else scenario.combines,
+        requirement_id=None if scenario is None else scenario.requirement_id,
     )
 
 

@@ -225,6 +225,9 @@ class ScenarioBlock(_Model):
     power_factor : float, optional
         Multiplier on the variant's own nominal power (relative; e.g. 1.1 for a +10 % power
         corner) [-]. Not with ``power``.
+    requirement_id : str, optional
+        Identifier of the requirement this condition checks (e.g. in a requirements tool);
+        carried to results.json. [-]
     combines : list of str, optional
         Names of other scenarios of the case applied together with this one (e.g. a hot day
         with one fan failed). Their changes are merged: relative rises add, factors multiply,
@@ -258,6 +261,7 @@ class ScenarioBlock(_Model):
 
     name: Name
     description: Text | None = None
+    requirement_id: Text | None = None
     combines: list[Name] = []
     inlet_temperature: Temperature | None = None
     inlet_temperature_rise: TemperatureDifference | None = None
@@ -298,7 +302,8 @@ class ScenarioBlock(_Model):
         changes = [
             n
             for n in type(self).model_fields
-            if n not in ("name", "description", "combines") and getattr(self, n) is not None
+            if n not in ("name", "description", "requirement_id", "combines")
+            and getattr(self, n) is not None
         ] + list(self.combines)
         if not changes:
             raise _fail(f"scenario '{self.name}' changes nothing (give at least one condition)")

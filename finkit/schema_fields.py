@@ -11,7 +11,7 @@ from __future__ import annotations
 import json
 from typing import Annotated
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict
+from pydantic import BaseModel, BeforeValidator, ConfigDict, Field
 from pydantic_core import PydanticCustomError
 
 from finkit.errors import InputError
@@ -89,7 +89,15 @@ def quantity(kind: str, *, gt=None, ge=None, le=None, show: str | None = None):
             raise fail(f"must be at most {limit(le)} (got {shown(value)})")
         return x
 
-    return Annotated[float, BeforeValidator(convert)]
+    unit = show or SHOW_UNIT.get(kind, "")
+    return Annotated[
+        float,
+        BeforeValidator(convert, json_schema_input_type=float | str),
+        Field(
+            description=f"{kind.replace('_', ' ')}: a number with a unit, e.g. '1 {unit}' "
+            "(a bare number is SI)"
+        ),
+    ]
 
 
 def whole(minimum: int):
@@ -103,7 +111,7 @@ def whole(minimum: int):
             raise fail(f"must be a whole number of at least {minimum} (got {shown(value)})")
         return value
 
-    return Annotated[int, BeforeValidator(convert)]
+    return Annotated[int, BeforeValidator(convert, json_schema_input_type=int | float)]
 
 
 def _text(value):
@@ -117,4 +125,4 @@ def _text(value):
 
 
 #: Non-empty text (numbers are taken as their text), stripped.
-Text = Annotated[str, BeforeValidator(_text)]
+Text = Annotated[str, BeforeValidator(_text, json_schema_input_type=str | int | float)]

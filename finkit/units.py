@@ -25,7 +25,8 @@ finkit keeps absolute temperatures and temperature differences apart, as pint do
 
 Extra units
 -----------
-``CFM`` (= ``cfm``) is one cubic foot per minute and ``LFM`` (= ``lfm``) one foot per minute,
+``CFM`` (= ``cfm``) is one cubic foot per minute and ``LFM`` (= ``lfm`` = ``fpm``, the trade's
+spellings of feet per minute) one foot per minute,
 both exact since 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959).
 Note that without this definition pint would read ``cfm`` as centi-fermi. ``inH2O`` is the
 conventional inch of water (1000 kg m⁻³ x 0.0254 m x 9.80665 m s⁻² = 249.08891 Pa) and
@@ -57,7 +58,7 @@ __all__ = [
 #: finkit's own unit registry (the only one; do not create others, do not change its settings).
 ureg = pint.UnitRegistry()
 ureg.define("CFM = foot ** 3 / minute = cfm")
-ureg.define("LFM = foot / minute = lfm")
+ureg.define("LFM = foot / minute = lfm = fpm")
 
 
 def _ensure_pressure_unit(name: str, pascal: float, definition: str) -> None:
@@ -333,6 +334,7 @@ _SYMBOLS = {
     "cfm": "CFM",
     "LFM": "ft/min",
     "lfm": "ft/min",
+    "fpm": "ft/min",
     "inH2O": "inH2O",
     "mmH2O": "mmH2O",
     "m^3/s": "m³/s",

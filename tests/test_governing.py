@@ -325,3 +325,15 @@ def test_printed_plate_fin_note_has_the_verdict_on_page_one(printed_demo_note):
 def test_printed_plate_fin_note_fits_in_twelve_pages(printed_demo_note):
     _, pages = printed_demo_note
     assert len(pages) <= 12, f"{len(pages)} A4 pages"
+
+
+def test_requirement_ids_reach_results_json():
+    data = expressible()
+    data["limit"]["requirement_id"] = "REQ-TH-012"
+    data["scenarios"][3]["requirement_id"] = "REQ-TH-014"
+    payload = run_case(load_case(data)).to_json_dict()
+    assert payload["limit"]["requirement_id"] == "REQ-TH-012"
+    assert payload["governing"]["requirement_id"] == "REQ-TH-014"
+    by_name = {c["name"]: c for c in payload["conditions"]}
+    assert by_name["hot-high"]["requirement_id"] == "REQ-TH-014"
+    assert by_name["hot-day"]["requirement_id"] is None

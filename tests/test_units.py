@@ -48,6 +48,7 @@ IN_H2O = INCH * 1000.0 * 9.80665  # conventional, exact; methods.md 0 prints 249
         # Source: 1 ft = 0.3048 m exactly (same agreement)
         ("200 ft/min", "velocity", 200 * FOOT / 60),
         ("200 LFM", "velocity", 200 * FOOT / 60),
+        ("400 fpm", "velocity", 400 * FOOT / 60),  # the trade's spelling of ft/min
         # Source: CFM = ft³/min, exact by the foot's definition
         ("12 ft^3/min", "volume_flow", 12 * CFM),
         ("12 CFM", "volume_flow", 12 * CFM),
