@@ -239,18 +239,13 @@ class VariantOutcome:
     def margin(self) -> tuple[float | None, str]:
         """Temperature margin below the limit [K] that decides the status, and where it is.
 
-        The margin of the governing scenario when the results hold a review of scenarios
-        (``review.scenarios[*].is_governing``), else the nominal ``temperature_margin``;
-        the second item names the scenario (``"nominal"`` for the nominal margin).
+        The headline ``results`` of a results.json are those of its governing condition
+        (``governing.condition``, results.json schema 2); a single-fin case has no conditions
+        and is its own (``"nominal"``).
         """
-        review = (self.results or {}).get("review")
-        scenarios = review.get("scenarios") if isinstance(review, Mapping) else None
-        for scenario in scenarios if isinstance(scenarios, list) else []:
-            if isinstance(scenario, Mapping) and scenario.get("is_governing"):
-                value = scenario.get("temperature_margin")
-                if isinstance(value, int | float) and math.isfinite(value):
-                    return float(value), str(scenario.get("name", "governing"))
-        return self.result_value("temperature_margin"), "nominal"
+        governing = (self.results or {}).get("governing")
+        name = governing.get("condition") if isinstance(governing, Mapping) else None
+        return self.result_value("temperature_margin"), str(name or "nominal")
 
 
 @dataclasses.dataclass(frozen=True)
