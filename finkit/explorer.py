@@ -451,7 +451,7 @@ class Explorer:
         self._surroundings_offset = self._offset(validated)
 
         style = {"description_width": "190px"}
-        layout = widgets.Layout(width="430px")
+        layout = widgets.Layout(width="100%", max_width="440px")
         self.controls: dict[str, Any] = {}
         for name, spec in self.specs.items():
             if name == "material":
@@ -497,7 +497,9 @@ class Explorer:
             self.controls[name] = control
 
         self._readout = widgets.HTML()
-        self._image = widgets.Image(format="png", layout=widgets.Layout(width="760px"))
+        self._image = widgets.Image(
+            format="png", layout=widgets.Layout(width="100%", max_width="760px")
+        )
         default_name = f"{validated.case_id}-explored.yaml"
         self._save_path = widgets.Text(
             value=default_name,
@@ -505,25 +507,38 @@ class Explorer:
             style=style,
             layout=layout,
         )
-        self._overwrite = widgets.Checkbox(value=False, description="overwrite", indent=False)
-        self._save_button = widgets.Button(description="Save as case", icon="save")
-        self._reset_button = widgets.Button(description="Reset to the case")
+        self._overwrite = widgets.Checkbox(
+            value=False, description="overwrite", indent=False, layout=widgets.Layout(width="auto")
+        )
+        # Buttons size to their labels (a fixed width cut them off).
+        auto = widgets.Layout(width="auto")
+        self._save_button = widgets.Button(description="Save as case", icon="save", layout=auto)
+        self._reset_button = widgets.Button(description="Reset to the case", layout=auto)
+        self.notice = ""
         self._message = widgets.HTML()
         self._save_button.on_click(lambda _: self._save_clicked())
         self._reset_button.on_click(lambda _: self.reset())
         title = widgets.HTML(
             present.heading(f"{validated.title_block.part} ({validated.case_id})", 3).__html__()
         )
+        wrap = widgets.Layout(flex_flow="row wrap", align_items="center")
         left = widgets.VBox(
             [
                 title,
                 *self.controls.values(),
                 self._save_path,
-                widgets.HBox([self._save_button, self._overwrite, self._reset_button]),
+                widgets.HBox([self._save_button, self._overwrite, self._reset_button], layout=wrap),
                 self._message,
-            ]
+            ],
+            layout=widgets.Layout(flex="0 1 450px", min_width="300px"),
         )
-        self.widget = widgets.HBox([left, widgets.VBox([self._readout, self._image])])
+        right = widgets.VBox(
+            [self._readout, self._image],
+            layout=widgets.Layout(flex="1 1 500px", min_width="320px"),
+        )
+        # Side by side where the notebook is wide, one above the other where it is not: no
+        # sideways scrolling at any width.
+        self.widget = widgets.HBox([left, right], layout=widgets.Layout(flex_flow="row wrap"))
 
         from matplotlib.figure import Figure
 
@@ -576,7 +591,17 @@ class Explorer:
             finish.value = current if current in keys else keys[0]
         finally:
             self._hold = False
+        self._notice_finish(change["new"], current, finish.value)
         self.update()
+
+    def _notice_finish(self, material: str, before: str, after: str) -> None:
+        """Say on screen when a material change replaced the finish (it changes emissivity)."""
+        self.notice = (
+            ""
+            if before == after
+            else f"Finish changed from {before} to {after}: {material} has no {before} finish."
+        )
+        self._message.value = present.text(self.notice).__html__() if self.notice else ""
 
     def _changed(self, change) -> None:
         if self._hold or change["owner"] is self.controls.get("material"):
@@ -593,7 +618,8 @@ class Explorer:
         Parameters
         ----------
         **values
-            Control name -> value in the control's unit (``fin_height=25`` is 25 mm). [-]
+            Control name -> value in the control's unit (``fin_height=25`` is 25 mm), or a
+            string with a unit (``fin_height="1.5 in"``). [-]
 
         Returns
         -------
@@ -605,20 +631,42 @@ class Explorer:
             raise InputError(
                 f"explorer controls: got {', '.join(unknown)}; allowed: {', '.join(self.controls)}"
             )
+        values = {name: self._in_control_unit(name, value) for name, value in values.items()}
         self._hold = True
         try:
             if "material" in values:
+                before = self.controls["finish"].value
                 self.controls["material"].value = values["material"]
                 self.controls["finish"].options = self._finish_options(values["material"])
                 keys = [key for _, key in self.controls["finish"].options]
                 if "finish" not in values and self.controls["finish"].value not in keys:
                     self.controls["finish"].value = keys[0]
+                if "finish" not in values:
+                    self._notice_finish(values["material"], before, self.controls["finish"].value)
             for name, value in values.items():
                 if name != "material":
                     self.controls[name].value = value
         finally:
             self._hold = False
         return self.update()
+
+    def _in_control_unit(self, name: str, value: Any) -> Any:
+        """A value given to :meth:`set` in the control's display unit (``"1.5 in"`` -> 38.1)."""
+        spec = self.specs[name]
+        if not isinstance(value, str) or name in ("material", "finish"):
+            return value
+        if spec.kind is None:
+            try:
+                number = float(value)
+            except ValueError:
+                raise InputError(
+                    f"explorer.{name}: got {value!r}; expected a number"
+                    + ("" if spec.unit == "-" else f" in {spec.unit}")
+                ) from None
+            return int(number) if isinstance(spec.value, int | np.integer) else number
+        from finkit.units import from_si, to_si
+
+        return float(from_si(to_si(value, spec.kind, f"explorer.{name}"), spec.kind, spec.unit))
 
     def reset(self) -> Any:
         """Every control back to the case's value; returns :meth:`update`'s result."""
@@ -1040,7 +1088,8 @@ class Explorer:
         path : path-like
             YAML file to write. [-]
         case_id : str, optional
-            Case id of the new case; default the original's. [-]
+            Case id of the new case; default the file name without its suffix. It may not be
+            the original case's id (the saved case's notes would overwrite the original's). [-]
         overwrite : bool, optional
             Replace an existing file. [-]
 
@@ -1065,6 +1114,14 @@ class Explorer:
             raise InputError(f"save_case: got {str(path)!r}; the file name must end in .yaml")
         if path.exists() and not overwrite:
             raise InputError(f"save_case: {str(path)!r} exists; pass overwrite=True to replace it")
+        # A saved variant is a case of its own: its notes must not land in the original's
+        # folder (<out>/<case_id>/), so it never keeps the original's id.
+        case_id = path.stem if case_id is None else case_id
+        if case_id == self._case.case_id:
+            raise InputError(
+                f"save_case: case id {case_id!r} is the original case's; give the saved case an "
+                "id of its own (case_id=..., or another file name)"
+            )
         mapping = self.case_mapping(case_id)
         load_case(copy.deepcopy(mapping))  # raises CaseError, nothing written
         now = _dt.datetime.now().astimezone().isoformat(timespec="seconds")
@@ -1092,8 +1149,8 @@ class Explorer:
             self._message.value = present.text("Not saved: " + "\n".join(lines)).__html__()
             return
         self._message.value = present.text(
-            f"Saved {written}. Check it: finkit check {written}; note: finkit note {written} "
-            "--out notes"
+            f"Saved {written} as case {written.stem}. Check it: finkit check {written}; note: "
+            f"finkit note {written} --out notes"
         ).__html__()
 
 

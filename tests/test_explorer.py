@@ -292,8 +292,29 @@ def test_save_case_refuses_to_overwrite_or_to_write_an_invalid_case(tmp_path):
         explorer.save_case(tmp_path / "other.yaml")
     assert not (tmp_path / "other.yaml").exists()
     explorer.reset()
+    # The saved case is a case of its own: never the original's id (its notes would overwrite
+    # the original's folder); by default it takes the file's name.
+    with pytest.raises(InputError, match="is the original case's"):
+        explorer.save_case(tmp_path / "nb200-plate-fan.yaml")
+    with pytest.raises(InputError, match="is the original case's"):
+        explorer.save_case(tmp_path / "x.yaml", case_id="nb200-plate-fan")
     explorer.save_case(target, overwrite=True)
-    assert load_case(target).case_id == "nb200-plate-fan"
+    assert load_case(target).case_id == "case"
+
+
+def test_set_accepts_unit_strings_and_shows_a_finish_it_had_to_change():
+    explorer = explore(DEMO_CASES / "nb200-plate-fan.yaml")
+    explorer.set(fin_height="1.5 in")  # Source: 1 in = 25.4 mm exactly (1959 agreement)
+    assert explorer.controls["fin_height"].value == pytest.approx(38.1)
+    with pytest.raises(InputError, match="explorer.fin_count"):
+        explorer.set(fin_count="many")
+    explorer.reset()
+    assert explorer.notice == ""
+    explorer.set(material="copper-c11000")
+    finish = explorer.controls["finish"].value
+    if finish != "anodised-black":  # copper has no anodised finish in the material table
+        assert "Finish changed from anodised-black to" in explorer.notice
+        assert explorer.notice in explorer._message.value
 
 
 def test_save_button_reports_what_it_did(tmp_path):
