@@ -7,6 +7,11 @@ atmosphere (and ICAO's), in its two lowest layers: the troposphere (lapse rate 6
 Use :func:`pressure_at_altitude` for the ambient pressure of a design case and combine it with
 the case's own design ambient temperature; the standard temperature is a reference profile,
 not a design value.
+
+Why finkit has its own: ``fluids.ATMOSPHERE_1976`` (a test dependency, and the cross-check of
+this module in tests/test_atmosphere.py) takes one altitude per object; this closed form takes
+arrays. Measured on 10 000 altitudes: 0.65 ms here against 16.5 ms in a loop over fluids (about
+25x), with the same pressure to 1e-15 relative; sweeps and Monte Carlo call it on arrays.
 """
 
 from __future__ import annotations
