@@ -554,6 +554,11 @@ NO_SCENARIO_WARNING = (
     "scenarios: none given, so only the case as stated was checked; a sign-off usually needs "
     "the worst case too (hottest inlet air, highest site, a stopped fan, a loaded filter)"
 )
+#: The same for a sink in still air (no fan, no inlet).
+NO_SCENARIO_WARNING_NATURAL = (
+    "scenarios: none given, so only the case as stated was checked; a sign-off usually needs "
+    "the worst case too (hottest ambient air, highest site, dust on the fins)"
+)
 
 
 def _merged_warnings(table, flags) -> list[str]:
@@ -588,7 +593,8 @@ def run_case(case) -> CaseResult:
     review = _review(case, inputs, governing.inputs, table, calibration)
     warnings = _merged_warnings(table, review.flags)
     if not scenarios:
-        warnings.append(NO_SCENARIO_WARNING)
+        is_natural = isinstance(inputs.flow, NaturalConvection)
+        warnings.append(NO_SCENARIO_WARNING_NATURAL if is_natural else NO_SCENARIO_WARNING)
     if calibration is not None and calibration.reads_low:
         warnings.insert(0, calibration.warning)
     return CaseResult(

@@ -3054,8 +3054,9 @@ def _scenario_section(result) -> list[Any]:
     return [
         present.heading("Operating scenarios", 3),
         present.text(
-            "Each scenario of the case file re-solved with the full model (airflow, bypass, "
-            "air heating); the governing scenario is the one with the least margin."
+            "Each scenario of the case file re-solved with the full model"
+            + ("" if _is_natural(result) else " (airflow, bypass, air heating)")
+            + "; the governing scenario is the one with the least margin."
         ),
         present.html_table(
             rows,
