@@ -87,7 +87,6 @@ __all__ = [
     "EXIT_ALL_PASS",
     "EXIT_LIMIT_FAILED",
     "EXIT_NOT_COMPUTED",
-    "KEY_RESULTS",
     "Variant",
     "VariantOutcome",
     "VariantRow",
@@ -108,17 +107,6 @@ SUMMARY_CSV = "summary.csv"
 SUMMARY_JSON = "summary.json"
 _RUN_DIR = ".finkit-batch-run"
 
-#: Results shown in the overview table (when any variant has a value), in this order.
-KEY_RESULTS = (
-    "limit_node_temperature",
-    "limit_temperature",
-    "temperature_margin",
-    "required_margin",
-    "allowable_power",
-    "sink_resistance",
-    "pressure_drop",
-    "volume_flow",
-)
 
 _PATH = re.compile(r"[A-Za-z_][A-Za-z0-9_]*(\[\d+\])*(\.[A-Za-z_][A-Za-z0-9_]*(\[\d+\])*)*")
 _HEADER = re.compile(r"\s*(?P<path>[^\s\[\]()]+(?:\[\d+\])*)\s*(?:[\[(](?P<unit>[^\])]*)[\])])?\s*")
@@ -1650,15 +1638,6 @@ def _progress_bar(total: int, enabled: bool) -> Any:
 # Overview: summary.csv, summary.json, index.html
 
 
-def _result_columns(outcomes: Sequence[VariantOutcome]) -> list[tuple[str, str]]:
-    columns = []
-    for name in KEY_RESULTS:
-        units = [o.result_unit(name) for o in outcomes if o.result_value(name) is not None]
-        if units:
-            columns.append((name, units[0]))
-    return columns
-
-
 def _all_result_names(outcomes: Sequence[VariantOutcome]) -> list[tuple[str, str]]:
     names: dict[str, str] = {}
     for o in outcomes:
@@ -1678,6 +1657,69 @@ def _shown_value(value: Any) -> str:
     if isinstance(value, str):
         return value
     return json.dumps(value, ensure_ascii=False)
+
+
+_NUMBER_UNIT = re.compile(r"\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([^\d\s].*)?")
+
+
+def _number_and_unit(value: Any) -> tuple[float, str] | None:
+    """``"40 W"`` -> (40.0, "W"), ``14`` -> (14.0, ""); None for text."""
+    if isinstance(value, bool):
+        return None
+    if isinstance(value, int | float):
+        return (float(value), "") if math.isfinite(value) else None
+    if isinstance(value, str):
+        match = _NUMBER_UNIT.fullmatch(value)
+        if match:
+            number = float(match.group(1))
+            return (number, (match.group(2) or "").strip()) if math.isfinite(number) else None
+    return None
+
+
+def _numeric_overrides(outcomes: Sequence[VariantOutcome]) -> dict[str, str]:
+    """Override columns that hold a number with one unit in every row: column -> unit."""
+    out = {}
+    for column in _override_columns(outcomes):
+        parsed = [
+            _number_and_unit(o.overrides.get(column)) for o in outcomes if column in o.overrides
+        ]
+        units = {p[1] for p in parsed if p is not None}
+        if parsed and None not in parsed and len(units) == 1:
+            out[column] = units.pop()
+    return out
+
+
+def _spreadsheet_text(value: str) -> str:
+    """User text for a CSV cell, kept from opening as a live formula in a spreadsheet."""
+    return "'" + value if value[:1] in ("=", "+", "-", "@", "\t", "\r") else value
+
+
+def _governing(o: VariantOutcome) -> Mapping[str, Any]:
+    governing = (o.results or {}).get("governing")
+    return governing if isinstance(governing, Mapping) else {}
+
+
+def _reason(o: VariantOutcome) -> str:
+    """Why a variant has its status, in one line (the failing check, or the error)."""
+    if o.status == "error":
+        return f"not computed: {o.error or o.error_kind or 'unknown error'}"
+    margin, condition = o.margin()
+    required = o.result_value("required_margin")
+    gov = _governing(o)
+    count = gov.get("condition_count")
+    failing = gov.get("failing_conditions") or []
+    if margin is None or required is None:
+        return ""
+    if o.status == "pass":
+        where = f"in all {count} conditions" if count else "at its condition"
+        return f"meets the required {required:.3g} K margin {where}"
+    if margin < 0:
+        text = f"{condition}: {-margin:.3g} K above the limit"
+    else:
+        text = f"{condition}: {required - margin:.3g} K short of the required {required:.3g} K"
+    if count and len(failing) > 1:
+        text += f" (fails in {len(failing)} of {count} conditions)"
+    return text
 
 
 def _note_links(out: Path, o: VariantOutcome) -> dict[str, str | None]:
@@ -1722,6 +1764,8 @@ def _write_overview(
                 "overrides": o.overrides,
                 "margin": o.margin()[0],
                 "governing": o.margin()[1] if o.margin()[0] is not None else None,
+                "allowable_power": o.result_value("allowable_power"),
+                "reason": _reason(o),
                 "results": (o.results or {}).get("results"),
                 "warnings": (o.results or {}).get("warnings"),
                 "inputs_sha256": (o.results or {}).get("inputs_sha256"),
@@ -1734,21 +1778,36 @@ def _write_overview(
         json.dumps({"batch": info, "variants": records}, indent=2, ensure_ascii=False),
     )
 
+    # The variant's own columns first (numbers, the unit in the header), then the verdict on
+    # the governing condition, then every result of results.json.
+    numeric = _numeric_overrides(outcomes)
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\n")
     writer.writerow(
-        ["variant", "row", "status", "state", "error", "margin [K]", "governing", *overrides]
+        ["variant"]
+        + [f"{c} [{numeric[c]}]" if numeric.get(c) else c for c in overrides]
+        + ["status", "governing condition", "governing margin [K]"]
+        + ["governing allowable power [W]", "reason", "row", "state", "error"]
         + [f"{name} [{unit}]" if unit else name for name, unit in results]
         + ["note"]
     )
     for o, record in zip(outcomes, records, strict=True):
+        shown = []
+        for c in overrides:
+            value = o.overrides.get(c)
+            if c in numeric and value is not None:
+                number = _number_and_unit(value)[0]
+                shown.append(str(value) if isinstance(value, int) else repr(number))
+            else:
+                shown.append(_spreadsheet_text(_shown_value(value)))
         writer.writerow(
-            [o.variant, o.row, o.status, o.state, o.error or ""]
-            + [
-                "" if record["margin"] is None else repr(record["margin"]),
-                record["governing"] or "",
-            ]
-            + [_shown_value(o.overrides.get(c)) for c in overrides]
+            [_spreadsheet_text(o.variant)]
+            + shown
+            + [o.status, record["governing"] or ""]
+            + ["" if record["margin"] is None else repr(record["margin"])]
+            + ["" if record["allowable_power"] is None else repr(record["allowable_power"])]
+            + [_spreadsheet_text(record["reason"]), o.row, o.state]
+            + [_spreadsheet_text(o.error or "")]
             + [
                 "" if o.result_value(name) is None else repr(o.result_value(name))
                 for name, _ in results
@@ -1764,9 +1823,8 @@ _SORT_SCRIPT = """\
 document.querySelectorAll("table.fk-sortable").forEach(function (table) {
   var heads = table.tHead.rows[0].cells;
   Array.prototype.forEach.call(heads, function (th, col) {
-    var button = th.querySelector("button");
-    if (!button) { return; }
-    button.addEventListener("click", function () {
+    if (!th.hasAttribute("data-sortable")) { return; }
+    function sort() {
       var ascending = th.getAttribute("aria-sort") !== "ascending";
       Array.prototype.forEach.call(heads, function (h) { h.removeAttribute("aria-sort"); });
       th.setAttribute("aria-sort", ascending ? "ascending" : "descending");
@@ -1780,6 +1838,10 @@ document.querySelectorAll("table.fk-sortable").forEach(function (table) {
         return ascending ? c : -c;
       });
       rows.forEach(function (row) { body.appendChild(row); });
+    }
+    th.addEventListener("click", sort);
+    th.addEventListener("keydown", function (e) {
+      if (e.key === "Enter" || e.key === " ") { e.preventDefault(); sort(); }
     });
   });
 });
@@ -1792,12 +1854,12 @@ h1 { font-size: 1.6em; margin-bottom: 0.2em; } h2 { font-size: 1.2em; margin-top
 table { border-collapse: collapse; margin: 0.6em 0; font-size: 0.92em; }
 th, td { border: 1px solid #bbb; padding: 0.25em 0.55em; vertical-align: top; }
 th { background: #eee; text-align: left; }
-th button { font: inherit; font-weight: bold; background: none; border: 0; padding: 0;
-            cursor: pointer; text-align: left; }
-th[aria-sort="ascending"] button::after { content: " \\25B2"; }
-th[aria-sort="descending"] button::after { content: " \\25BC"; }
+th[data-sortable] { cursor: pointer; }
+th[aria-sort="ascending"]::after { content: " \\25B2"; }
+th[aria-sort="descending"]::after { content: " \\25BC"; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
-td.id { white-space: nowrap; } td.text { min-width: 6em; max-width: 22em; }
+td.id { white-space: nowrap; } td.text { min-width: 12em; max-width: 24em; }
+td.variant { min-width: 9em; max-width: 15em; } td.variant .muted { font-size: 0.9em; }
 div.scroll { overflow-x: auto; } th { vertical-align: bottom; }
 .badge { display: inline-block; padding: 0 0.5em; border-radius: 0.3em; font-weight: bold; }
 .pass { background: #d7f0d7; color: #124d12; } .fail { background: #f6d5d5; color: #7a1010; }
@@ -1805,8 +1867,104 @@ div.scroll { overflow-x: auto; } th { vertical-align: bottom; }
 dl.info { display: grid; grid-template-columns: max-content auto; gap: 0.15em 1em; }
 dl.info dt { font-weight: bold; } dl.info dd { margin: 0; }
 ul.failures li { margin-bottom: 0.5em; } code { overflow-wrap: anywhere; }
-@media print { th button::after { content: none !important; } }
+@media print {
+  @page { size: A4 landscape; margin: 10mm; }
+  body { max-width: none; margin: 0; padding: 0; font-size: 8.5pt; }
+  div.scroll { overflow: visible; }
+  table { width: 100%; font-size: 1em; }
+  thead { display: table-header-group; }
+  tr, td, th { break-inside: avoid; page-break-inside: avoid; }
+  h2 { break-after: avoid; }
+  th::after { content: none !important; }
+  td.text { max-width: none; }
+  a { color: inherit; text-decoration: none; }
+}
 """
+
+
+def _label(column: str, unit: str) -> str:
+    """``source.power`` -> ``<span title="source.power">power [W]</span>``: the field without its
+    block, the full path on hover."""
+    parts = column.split(".")
+    text = " ".join(parts[1:] if len(parts) > 1 else parts).replace("_", " ")
+    shown = f"{text} [{_UNIT_TEXT.get(unit, unit)}]" if unit else text
+    return f'<span title="{_esc(column)}">{_esc(shown)}</span>'
+
+
+def _plain(value: float) -> str:
+    """A number as the variant table gives it (3000, 1.2), not rounded."""
+    return format(value, "g") if abs(value) < 1e6 else format(value, ".6g")
+
+
+_UNIT_TEXT = {"degC": "°C", "degF": "°F", "m^3/s": "m³/s", "m^2": "m²"}
+
+
+def _sig3(value: float | None, unit: str = "") -> str:
+    if value is None:
+        return "—"
+    text = f"{value:.3g}"
+    return f"{text}\u00a0{_UNIT_TEXT.get(unit, unit)}" if unit else text
+
+
+def _variant_table(
+    group: Sequence[VariantOutcome],
+    varying: Sequence[str],
+    numeric: Mapping[str, str],
+    texts: Sequence[str],
+    out: Path,
+) -> str:
+    """One sortable table of variants: what changed, the governing verdict, the reason."""
+    headers = ["Variant", *(_label(c, numeric[c]) for c in varying)]
+    headers += ["Status", "Governing condition", "Margin [K]", "Allowable power [W]"]
+    headers += ["Reason", "Note"]
+    rows = ['<div class="scroll"><table class="fk-sortable"><thead><tr>']
+    rows += [f'<th data-sortable tabindex="0">{h}</th>' for h in headers]
+    rows.append("</tr></thead><tbody>")
+    status_order = {"fail": 0, "error": 1, "pass": 2}
+    for o in group:
+        extra = "".join(
+            f'<br><span class="muted">{_esc(_shown_value(o.overrides.get(c)))}</span>'
+            for c in texts
+            if o.overrides.get(c) is not None
+        )
+        cells = [
+            f'<td class="variant" data-sort="{_esc(o.variant)}">'
+            f"<strong>{_esc(o.variant) or '<em>(no id)</em>'}</strong>{extra}</td>"
+        ]
+        for c in varying:
+            parsed = _number_and_unit(o.overrides.get(c))
+            value = None if parsed is None else parsed[0]
+            sort = "" if value is None else repr(value)
+            shown = "—" if value is None else _plain(value)
+            cells.append(f'<td class="num" data-sort="{sort}">{shown}</td>')
+        cells.append(f'<td data-sort="{status_order[o.status]}">{_badge(o.status)}</td>')
+        margin, condition = o.margin()
+        required = o.result_value("required_margin")
+        allowed = o.result_value("allowable_power")
+        stated = o.result_value("power")
+        shown_condition = condition if margin is not None else ""
+        cells.append(f'<td data-sort="{_esc(shown_condition)}">{_esc(shown_condition)}</td>')
+        against = "" if required is None else f'<br><span class="muted">req. {required:.3g}</span>'
+        sort = "" if margin is None else repr(margin)
+        cells.append(f'<td class="num" data-sort="{sort}">{_sig3(margin)}{against}</td>')
+        against = "" if stated is None else f'<br><span class="muted">stated {stated:.3g}</span>'
+        sort = "" if allowed is None else repr(allowed)
+        cells.append(f'<td class="num" data-sort="{sort}">{_sig3(allowed)}{against}</td>')
+        reason = _reason(o)
+        cells.append(f'<td class="text" data-sort="{_esc(reason)}">{_esc(reason)}</td>')
+        links = _note_links(out, o)
+        if links["note"]:
+            link = f'<a href="{_esc(quote(links["note"]))}">note</a>'
+            if o.state == "reused":
+                link += ' <span class="muted">(reused)</span>'
+        elif links["failed_notebook"]:
+            link = f'<a href="{_esc(quote(links["failed_notebook"]))}">partial notebook</a>'
+        else:
+            link = '<span class="muted">—</span>'
+        cells.append(f'<td class="id" data-sort="{_esc(o.state)}">{link}</td>')
+        rows.append("<tr>" + "".join(cells) + "</tr>")
+    rows.append("</tbody></table></div>")
+    return "\n".join(rows)
 
 
 def _esc(value: Any) -> str:
@@ -1883,7 +2041,7 @@ def _margin_chart(outcomes: Sequence[VariantOutcome]) -> str:
         )
     parts.append(
         f'<text x="{label_w + plot_w / 2:.0f}" y="{height - 4}" text-anchor="middle">'
-        "temperature margin below the limit, governing scenario [K]</text>"
+        "temperature margin below the limit, governing condition [K]</text>"
     )
     parts.append("</svg>")
     return "".join(parts)
@@ -1925,7 +2083,6 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         f"script-src 'sha256-{script_hash}'; base-uri 'none'; form-action 'none'"
     )
     overrides = _override_columns(outcomes)
-    results = _result_columns(outcomes)
     counts = info.get("counts", {})
     exit_code = info.get("exit_code")
     verdict = {
@@ -1962,77 +2119,28 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         p.append(f"<dt>{_esc(name)}</dt><dd>{_esc(value)}</dd>")
     p.append("</dl>")
 
-    p.append("<h2>Variants</h2>")
     p.append(
-        '<p class="muted">Click a column heading to sort. The margin is the one that decides '
-        "the status (of the governing scenario, when the case has scenarios); results are those "
-        "of each variant's results.json; overrides are shown as entered in the variant "
-        "table.</p>"
+        '<p class="muted">Every value is that of the variant\'s governing condition (its '
+        "operating condition with the least margin), as in its results.json; the columns "
+        "after the variant are its entries in the variant table. Click a column heading to "
+        "sort a table.</p>"
     )
-    has_scenarios = any(o.margin()[1] != "nominal" for o in outcomes)
-    headers = ["Variant", "Row", "Status", "Note", "Margin [K]"]
-    headers += ["Governing scenario"] if has_scenarios else []
-    headers += [f"{name.replace('_', ' ')} [{unit}]" if unit else name for name, unit in results]
-    headers += overrides
-    p.append('<div class="scroll"><table class="fk-sortable"><thead><tr>')
-    for h in headers:
-        p.append(f'<th><button type="button">{_esc(h)}</button></th>')
-    p.append("</tr></thead><tbody>")
-    status_order = {"fail": 0, "error": 1, "pass": 2}
-    for o in outcomes:
-        links = _note_links(out, o)
-        cells = [
-            f'<td class="id" data-sort="{_esc(o.variant)}">'
-            f"{_esc(o.variant) or '<em>(no id)</em>'}</td>",
-            f'<td class="num" data-sort="{o.row}">{o.row}</td>',
-            f'<td data-sort="{status_order[o.status]}">{_badge(o.status)}</td>',
-        ]
-        if links["note"]:
-            link = f'<a href="{_esc(quote(links["note"]))}">note</a>'
-            if o.state == "reused":
-                link += ' <span class="muted">(reused)</span>'
-        elif links["failed_notebook"]:
-            link = f'<a href="{_esc(quote(links["failed_notebook"]))}">partial notebook</a>'
-        else:
-            link = '<span class="muted">—</span>'
-        cells.append(f'<td class="id" data-sort="{_esc(o.state)}">{link}</td>')
-        margin, governing = o.margin()
-        sort = "" if margin is None else repr(margin)
-        cells.append(f'<td class="num" data-sort="{sort}">{_number(margin)}</td>')
-        if has_scenarios:
-            shown = governing if margin is not None else ""
-            cells.append(f'<td data-sort="{_esc(shown)}">{_esc(shown)}</td>')
-        for name, _ in results:
-            value = o.result_value(name)
-            sort = "" if value is None else repr(value)
-            cells.append(f'<td class="num" data-sort="{sort}">{_number(value)}</td>')
-        for column in overrides:
-            shown = _shown_value(o.overrides.get(column))
-            cells.append(f'<td class="text" data-sort="{_esc(shown)}">{_esc(shown)}</td>')
-        p.append("<tr>" + "".join(cells) + "</tr>")
-    p.append("</tbody></table></div>")
-
+    numeric = _numeric_overrides(outcomes)
+    varying = [
+        c
+        for c in numeric
+        if len({_number_and_unit(o.overrides.get(c)) for o in outcomes if c in o.overrides}) > 1
+    ]
+    texts = [c for c in overrides if c not in numeric]
+    for status, title in (("fail", "Fail"), ("error", "Not computed"), ("pass", "Pass")):
+        group = [o for o in outcomes if o.status == status]
+        p.append(f"<h2>{title} ({len(group)})</h2>")
+        if not group:
+            p.append('<p class="muted">None.</p>')
+            continue
+        p.append(_variant_table(group, varying, numeric, texts, out))
     p.append("<h2>Temperature margin</h2>")
     p.append(_margin_chart(outcomes))
-
-    failures = [o for o in outcomes if o.status == "error"]
-    p.append(f"<h2>Failures ({len(failures)})</h2>")
-    if not failures:
-        p.append("<p>None: every variant was computed.</p>")
-    else:
-        p.append('<ul class="failures">')
-        for o in failures:
-            links = _note_links(out, o)
-            partial = (
-                f' — <a href="{_esc(quote(links["failed_notebook"]))}">partial notebook</a>'
-                if links["failed_notebook"]
-                else ""
-            )
-            p.append(
-                f"<li><strong>{_esc(o.variant) or '(no id)'}</strong> (row {o.row}, "
-                f"{_esc(o.error_kind)}){partial}<br><code>{_esc(o.error)}</code></li>"
-            )
-        p.append("</ul>")
     p.append(f"<script>{_SORT_SCRIPT}</script>")
     p.append("</body></html>")
     return "\n".join(p)

@@ -20,7 +20,7 @@ import numpy as np
 import finkit
 from finkit.airflow import FanCurve
 from finkit.constants import ZERO_CELSIUS
-from finkit.errors import InputError
+from finkit.errors import InputError, PropertyRangeError
 from finkit.geometry import PinFinSink, PlateFinSink
 from finkit.properties.atmosphere import standard_atmosphere
 from finkit.properties.materials import get_material, material_emissivity
@@ -1001,8 +1001,37 @@ def fan_pressure(inputs: SinkInputs, volume_flow) -> dict[str, np.ndarray]:
 
 
 def note_sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
-    """:func:`sweep`, under the name the note templates call."""
-    return sweep(inputs, name, values)
+    """:func:`sweep` for a plotted range: points the model cannot solve are left out (NaN).
+
+    The ends of a plotted range can leave the air-property range at a hot condition (a very
+    low flow at the stated power heats the air past 500 K). The whole range is solved in one
+    call first; only if that fails is it solved point by point, and the points that fail are
+    NaN (a gap in the curve) instead of losing the figure. If every point fails, the error of
+    the first is raised.
+    """
+    try:
+        return sweep(inputs, name, values)
+    except PropertyRangeError:
+        values = np.asarray(values, float)
+        rows: list[dict[str, np.ndarray] | None] = []
+        first_error = None
+        for value in values.ravel():
+            try:
+                rows.append(sweep(inputs, name, np.array([value])))
+            except PropertyRangeError as exc:
+                first_error = first_error or exc
+                rows.append(None)
+        solved = [r for r in rows if r is not None]
+        if not solved:
+            raise first_error from None
+        out = {
+            key: np.array(
+                [np.nan if r is None else float(np.ravel(r[key])[0]) for r in rows]
+            ).reshape(values.shape)
+            for key in solved[0]
+        }
+        out["values"] = values
+        return out
 
 
 def single_fin_profiles(case, points: int = 101) -> dict[str, Any]:

@@ -336,7 +336,7 @@ def test_overview_escapes_variant_text_and_runs_only_its_own_script(tmp_path):
     stripped = page.replace(f"<script>{script}</script>", "")
     assert notes.check_note_html(stripped) == ["<meta http-equiv> element"]
     assert '<a href="ok-1/note.html">note</a>' in page
-    assert "Failures (1)" in page and "<svg" in page and "required margin 5 K" in page
+    assert "Not computed (1)" in page and "<svg" in page and "required margin 5 K" in page
 
 
 # ------------------------------------------------------------------------------------------
@@ -447,7 +447,7 @@ def test_overview_and_summaries(first_run):
     out, _, result, _ = first_run
     page = (out / "index.html").read_text(encoding="utf-8")
     assert "&lt;script&gt;alert(1)&lt;/script&gt;" in page and "<b>co</b>" not in page
-    assert "Failures (4)" in page
+    assert "Not computed (4)" in page and "Fail (" in page and "Pass (" in page
     for o in result.outcomes:
         if o.status == "error":
             assert html_escape(o.error) in page
@@ -469,7 +469,9 @@ def test_overview_and_summaries(first_run):
     assert [r["variant"] for r in table] == [o.variant for o in result.outcomes]
     low = next(r for r in table if r["variant"] == "low-power")
     assert float(low["temperature_margin [K]"]) == results["results"]["temperature_margin"]["value"]
-    assert low["source.power"] == "20 W" and low["status"] == "pass"
+    assert low["source.power [W]"] == "20.0" and low["status"] == "pass"
+    # The variant's own columns come right after the variant, numeric, unit in the header.
+    assert list(table[0])[:2] == ["variant", "source.power [W]"]
 
 
 def html_escape(text):

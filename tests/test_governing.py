@@ -307,7 +307,9 @@ def test_printed_plate_fin_note_has_the_verdict_on_page_one(printed_demo_note):
     payload = json.loads(output.results_json.read_text(encoding="utf-8"))
     gov = payload["governing"]
     first = pages[0]
-    assert "Fails on the governing condition 'hot-day-one-fan'" in first
+    verb = "Passes" if payload["status"] == "pass" else "Fails"
+    assert f"{verb} on the governing condition '{gov['condition']}'" in first
+    assert gov["condition"] == "hot-day-one-fan"
     assert "Why it governs: least margin" in first
     margin = gov["temperature_margin"]["value"]
     allowed = gov["allowable_power"]["value"]
@@ -337,3 +339,55 @@ def test_requirement_ids_reach_results_json():
     by_name = {c["name"]: c for c in payload["conditions"]}
     assert by_name["hot-high"]["requirement_id"] == "REQ-TH-014"
     assert by_name["hot-day"]["requirement_id"] is None
+
+
+# --------------------------------------------------------------------------------------------
+# The same governing numbers in check --json, results.json, the note and the batch overview
+
+
+@pytest.mark.slow
+def test_governing_numbers_agree_in_check_note_and_batch_overview(tmp_path):
+    import csv
+    import html as html_module
+
+    from finkit.batch import prepare_variants, run_batch
+
+    base = lean(raw())
+    table = [
+        {"variant": "std", "source.power": "40 W"},
+        {"variant": "plus", "source.power": "44 W"},
+    ]
+    out = tmp_path / "batch"
+    result = run_batch(base, table, out, jobs=1)
+    page = (out / "index.html").read_text(encoding="utf-8")
+    with open(out / "summary.csv", newline="", encoding="utf-8") as handle:
+        rows = {r["variant"]: r for r in csv.DictReader(handle)}
+    variants = {v.variant: v for v in prepare_variants(base, table)}
+    for o in result.outcomes:
+        payload = json.loads((out / o.variant / "results.json").read_text(encoding="utf-8"))
+        gov = payload["governing"]
+        # check --json of the same case (a separate solve)
+        path = tmp_path / f"{o.variant}.yaml"
+        path.write_text(yaml.safe_dump(variants[o.variant].case), encoding="utf-8")
+        run = subprocess.run(
+            [sys.executable, "-m", "finkit.cli", "check", str(path), "--json"],
+            capture_output=True,
+            text=True,
+            check=False,
+        )
+        checked = json.loads(run.stdout)["governing"]
+        margin, allowed = gov["temperature_margin"]["value"], gov["allowable_power"]["value"]
+        assert checked["condition"] == gov["condition"] == o.margin()[1]
+        assert checked["temperature_margin"]["value"] == pytest.approx(margin, rel=1e-9)
+        assert checked["allowable_power"]["value"] == pytest.approx(allowed, rel=1e-9)
+        # summary.csv and the overview page show the same governing values
+        assert float(rows[o.variant]["governing margin [K]"]) == pytest.approx(margin, rel=1e-12)
+        assert float(rows[o.variant]["governing allowable power [W]"]) == pytest.approx(allowed)
+        assert rows[o.variant]["governing condition"] == gov["condition"]
+        assert f">{margin:.3g}<" in page and f">{allowed:.3g}<" in page
+        # and the note's page 1
+        note = html_module.unescape(
+            (out / o.variant / "note.html").read_text(encoding="utf-8")
+        ).replace("\u00a0", " ")
+        assert f"'{gov['condition']}'" in note and f"margin {margin:.3g} K" in note
+    assert "Fail (1)" in page and "Pass (1)" in page and "Not computed (0)" in page
