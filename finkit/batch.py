@@ -1387,6 +1387,7 @@ def run_batch(
     paper: str = "A4",
     execution_time: _dt.datetime | str | None = None,
     progress: bool = False,
+    compare_to: str | os.PathLike | None = None,
 ) -> BatchResult:
     """Render the note of every variant of a base case, in parallel, and write the overview.
 
@@ -1403,6 +1404,9 @@ def run_batch(
         Notebook template; default the template of the base case's kind. [-]
     jobs : int, optional
         Notes computed at the same time; default the number of usable CPU cores. [-]
+    compare_to : path-like, optional
+        An earlier batch folder: each variant whose status or governing margin changed
+        against it is marked in the overview, with the change in kelvin. [-]
     timeout : float, optional
         Time limit of one variant's note; the process is killed when it is reached. [s]
     force : bool, optional
@@ -1604,6 +1608,8 @@ def run_batch(
             "timeout": float(timeout),
             "seconds": round(time.monotonic() - started_wall, 3),
         }
+        if compare_to is not None:
+            info["compare_to"] = str(compare_to)
         index, summary_csv, summary_json = _write_overview(out, info, ordered)
     return BatchResult(
         out_dir=out,
@@ -1699,6 +1705,27 @@ def _governing(o: VariantOutcome) -> Mapping[str, Any]:
     return governing if isinstance(governing, Mapping) else {}
 
 
+def _since(o: VariantOutcome, earlier: Path | None) -> str:
+    """What changed for a variant since an earlier batch folder (empty if nothing did)."""
+    if earlier is None or not o.variant or not _VARIANT_ID.fullmatch(o.variant):
+        return ""
+    path = earlier / o.variant / notes.RESULTS_JSON
+    try:
+        before = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return "new since the earlier batch"
+    entry = (before.get("results") or {}).get("temperature_margin")
+    old_margin = entry.get("value") if isinstance(entry, Mapping) else None
+    margin = o.margin()[0]
+    parts = []
+    if before.get("status") != o.status:
+        parts.append(f"status {before.get('status')} -> {o.status}")
+    if isinstance(old_margin, int | float) and margin is not None:
+        if abs(margin - old_margin) >= 0.005:
+            parts.append(f"governing margin {margin - old_margin:+.3g} K")
+    return "; ".join(parts)
+
+
 def _reason(o: VariantOutcome) -> str:
     """Why a variant has its status, in one line (the failing check, or the error)."""
     if o.status == "error":
@@ -1749,6 +1776,7 @@ def _write_overview(
         "counts": _counts(outcomes),
     }
 
+    earlier = Path(info["compare_to"]) if info.get("compare_to") else None
     records = []
     for o in outcomes:
         records.append(
@@ -1766,6 +1794,7 @@ def _write_overview(
                 "governing": o.margin()[1] if o.margin()[0] is not None else None,
                 "allowable_power": o.result_value("allowable_power"),
                 "reason": _reason(o),
+                "since": _since(o, earlier),
                 "results": (o.results or {}).get("results"),
                 "warnings": (o.results or {}).get("warnings"),
                 "inputs_sha256": (o.results or {}).get("inputs_sha256"),
@@ -1787,7 +1816,8 @@ def _write_overview(
         ["variant"]
         + [f"{c} [{numeric[c]}]" if numeric.get(c) else c for c in overrides]
         + ["status", "governing condition", "governing margin [K]"]
-        + ["governing allowable power [W]", "reason", "row", "state", "error"]
+        + ["governing allowable power [W]", "reason", "since earlier batch", "row", "state"]
+        + ["error"]
         + [f"{name} [{unit}]" if unit else name for name, unit in results]
         + ["note"]
     )
@@ -1806,7 +1836,7 @@ def _write_overview(
             + [o.status, record["governing"] or ""]
             + ["" if record["margin"] is None else repr(record["margin"])]
             + ["" if record["allowable_power"] is None else repr(record["allowable_power"])]
-            + [_spreadsheet_text(record["reason"]), o.row, o.state]
+            + [_spreadsheet_text(record["reason"]), record["since"], o.row, o.state]
             + [_spreadsheet_text(o.error or "")]
             + [
                 "" if o.result_value(name) is None else repr(o.result_value(name))
@@ -1864,6 +1894,7 @@ div.scroll { overflow-x: auto; } th { vertical-align: bottom; }
 .badge { display: inline-block; padding: 0 0.5em; border-radius: 0.3em; font-weight: bold; }
 .pass { background: #d7f0d7; color: #124d12; } .fail { background: #f6d5d5; color: #7a1010; }
 .error { background: #f7e7c4; color: #6b4500; } .muted { color: #666; }
+.changed { color: #7a4b00; }
 dl.info { display: grid; grid-template-columns: max-content auto; gap: 0.15em 1em; }
 dl.info dt { font-weight: bold; } dl.info dd { margin: 0; }
 ul.failures li { margin-bottom: 0.5em; } code { overflow-wrap: anywhere; }
@@ -1912,6 +1943,7 @@ def _variant_table(
     numeric: Mapping[str, str],
     texts: Sequence[str],
     out: Path,
+    earlier: Path | None = None,
 ) -> str:
     """One sortable table of variants: what changed, the governing verdict, the reason."""
     headers = ["Variant", *(_label(c, numeric[c]) for c in varying)]
@@ -1951,7 +1983,13 @@ def _variant_table(
         sort = "" if allowed is None else repr(allowed)
         cells.append(f'<td class="num" data-sort="{sort}">{_sig3(allowed)}{against}</td>')
         reason = _reason(o)
-        cells.append(f'<td class="text" data-sort="{_esc(reason)}">{_esc(reason)}</td>')
+        since = _since(o, earlier)
+        changed = (
+            f'<br><strong class="changed">since {_esc(earlier.name)}: {_esc(since)}</strong>'
+            if since and earlier is not None
+            else ""
+        )
+        cells.append(f'<td class="text" data-sort="{_esc(reason)}">{_esc(reason)}{changed}</td>')
         links = _note_links(out, o)
         if links["note"]:
             link = f'<a href="{_esc(quote(links["note"]))}">note</a>'
@@ -2125,6 +2163,7 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         "after the variant are its entries in the variant table. Click a column heading to "
         "sort a table.</p>"
     )
+    earlier = Path(info["compare_to"]) if info.get("compare_to") else None
     numeric = _numeric_overrides(outcomes)
     varying = [
         c
@@ -2138,7 +2177,7 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         if not group:
             p.append('<p class="muted">None.</p>')
             continue
-        p.append(_variant_table(group, varying, numeric, texts, out))
+        p.append(_variant_table(group, varying, numeric, texts, out, earlier))
     p.append("<h2>Temperature margin</h2>")
     p.append(_margin_chart(outcomes))
     p.append(f"<script>{_SORT_SCRIPT}</script>")

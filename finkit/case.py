@@ -140,8 +140,10 @@ def _key(value):
 
 
 Key = Annotated[str, BeforeValidator(_key)]
-Length = _quantity("length", gt=0.0)
-Gap = _quantity("length", ge=0.0)
+# A heat sink's parts measure millimetres to decimetres: a bare number above 1 m is almost
+# surely millimetres written without the unit (common practice, no source).
+Length = _quantity("length", gt=0.0, bare_max=1.0, hint="mm")
+Gap = _quantity("length", ge=0.0, bare_max=1.0, hint="mm")
 Altitude = _quantity("length", ge=ALTITUDE_RANGE[0], le=ALTITUDE_RANGE[1], show="m")
 Temperature = _quantity("temperature")
 TemperatureDifference = _quantity("temperature_difference", ge=0.0)
@@ -150,9 +152,11 @@ ThermalResistance = _quantity("thermal_resistance", ge=0.0)
 AreaResistance = _quantity("area_resistance", ge=0.0)
 Conductivity = _quantity("thermal_conductivity", gt=0.0)
 HeatTransferCoefficient = _quantity("heat_transfer_coefficient", gt=0.0)
-Velocity = _quantity("velocity", gt=0.0)
-VolumeFlow = _quantity("volume_flow", gt=0.0)
-CurveFlow = _quantity("volume_flow", ge=0.0)
+# Air cooling of electronics: approach velocities up to a few m/s, flows up to a fraction of a
+# m^3/s; bare numbers far above are feet per minute or CFM without the unit (common practice).
+Velocity = _quantity("velocity", gt=0.0, bare_max=50.0, hint="ft/min")
+VolumeFlow = _quantity("volume_flow", gt=0.0, bare_max=1.0, hint="CFM")
+CurveFlow = _quantity("volume_flow", ge=0.0, bare_max=1.0, hint="CFM")
 CurvePressure = _quantity("pressure", ge=0.0)
 Density = _quantity("density", gt=0.0)
 Emissivity = _quantity("dimensionless", gt=0.0, le=1.0)
@@ -508,6 +512,18 @@ class SingleFinLimit(_Model):
     required_margin: TemperatureDifference = 0.0
 
 
+class PreviousRevision(_Model):
+    """The previous signed revision of this case, for the note's "changes since" section.
+
+    ``source``: a case file, a note folder or its results.json (a relative path is taken from
+    the case file's folder); ``revision``: its revision letter or number as signed. Not part of
+    the inputs hash: naming a previous revision changes no result.
+    """
+
+    source: Text
+    revision: Text
+
+
 class Case(_Model):
     """Fields common to every case. Use :class:`HeatSinkCase` or :class:`SingleFinCase`."""
 
@@ -515,6 +531,7 @@ class Case(_Model):
     kind: str
     title_block: TitleBlock
     materials: dict[Key, UserMaterial] = {}
+    previous_revision: PreviousRevision | None = None
 
     _entered: dict = PrivateAttr(default_factory=dict)
     _source_path: Path | None = PrivateAttr(default=None)
@@ -729,14 +746,48 @@ class _Common(BaseModel):
 # Reading and error messages
 
 
+#: Deepest nesting a case file may have (a real case nests four or five levels).
+MAX_DEPTH = 40
+#: Largest case file read [bytes].
+MAX_CASE_BYTES = 2_000_000
+
+
 class _UniqueKeyLoader(yaml.SafeLoader):
-    """SafeLoader that refuses a key given twice in one mapping (PyYAML keeps the last)."""
+    """SafeLoader that refuses a key given twice in one mapping (PyYAML keeps the last), YAML
+    aliases (``*name``: an alias bomb would expand without bound) and deep nesting."""
+
+    def compose_node(self, parent, index):
+        if self.check_event(yaml.AliasEvent):
+            mark = self.peek_event().start_mark
+            raise CaseError(
+                [
+                    f"case file: YAML anchors and aliases (&name, *name) are not accepted "
+                    f"(line {mark.line + 1}); write the values out"
+                ]
+            )
+        self._depth = getattr(self, "_depth", 0) + 1
+        try:
+            if self._depth > MAX_DEPTH:
+                mark = self.peek_event().start_mark
+                raise CaseError(
+                    [f"case file: nested more than {MAX_DEPTH} levels deep (line {mark.line + 1})"]
+                )
+            return super().compose_node(parent, index)
+        finally:
+            self._depth -= 1
 
 
 def _construct_mapping(loader, node, deep=False):
     seen = {}
     for key_node, _ in node.value:
         key = loader.construct_object(key_node, deep=deep)
+        if not isinstance(key, str | int | float | bool) and key is not None:
+            raise CaseError(
+                [
+                    f"case file: a key must be plain text (line {key_node.start_mark.line + 1}, "
+                    f"got a {type(key).__name__})"
+                ]
+            )
         if key in seen:
             raise CaseError(
                 [
@@ -769,17 +820,32 @@ def _read(source) -> tuple[dict, Path | None]:
     if isinstance(source, Path) or (isinstance(source, str) and _looks_like_path(source)):
         path = Path(source)
         try:
-            text = path.read_text(encoding="utf-8")
+            data_bytes = path.read_bytes()
         except FileNotFoundError:
             raise CaseError([f"case file: not found (got '{path}')"]) from None
         except OSError as exc:
             raise CaseError([f"case file: cannot be read (got '{path}': {exc.strerror})"]) from None
+        if len(data_bytes) > MAX_CASE_BYTES:
+            raise CaseError(
+                [f"case file: {len(data_bytes)} bytes; at most {MAX_CASE_BYTES} are read"]
+            )
+        try:
+            text = data_bytes.decode("utf-8-sig")
+        except UnicodeDecodeError as exc:
+            raise CaseError(
+                [
+                    f"case file: not UTF-8 text (byte 0x{data_bytes[exc.start]:02x} at offset "
+                    f"{exc.start}); save it as UTF-8"
+                ]
+            ) from None
     elif isinstance(source, str):
         text = source
     else:
         raise CaseError(
             [f"case: expected a YAML file path, YAML text or a dict (got {type(source).__name__})"]
         )
+    if len(text) > MAX_CASE_BYTES:
+        raise CaseError([f"case: {len(text)} characters; at most {MAX_CASE_BYTES} are read"])
     try:
         data = yaml.load(text, Loader=_UniqueKeyLoader)  # noqa: S506 - SafeLoader subclass
     except yaml.MarkedYAMLError as exc:
@@ -1142,6 +1208,13 @@ def load_case(source) -> HeatSinkCase | SingleFinCase:
 
     root = _ROOTS[kind]
     errors: list[str] = []
+    previous = raw.get("previous_revision")
+    if path is not None and isinstance(previous, dict) and isinstance(previous.get("source"), str):
+        if not Path(previous["source"]).is_absolute():
+            # Relative to the case file, kept absolute so that a note (which receives the case
+            # as a mapping) finds it too.
+            where = str((path.parent / previous["source"]).resolve())
+            raw = {**raw, "previous_revision": {**previous, "source": where}}
     data = raw
     if kind == "heat-sink":
         errors, data = _structure_heat_sink(raw)
@@ -1175,7 +1248,7 @@ def case_inputs_sha256(case: Case) -> str:
     str
         64 hexadecimal characters.
     """
-    content = _rounded(case.model_dump(mode="json"))
+    content = _rounded(case.model_dump(mode="json", exclude={"previous_revision"}))
     text = json.dumps(
         content, sort_keys=True, separators=(",", ":"), ensure_ascii=False, allow_nan=False
     )

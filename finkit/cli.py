@@ -18,6 +18,7 @@ import argparse
 import json
 import os
 import sys
+import warnings
 from importlib import resources
 from pathlib import Path
 
@@ -25,7 +26,7 @@ from finkit.errors import FinkitError
 
 STARTERS = ("plate-fin", "pin-fin", "natural", "single-fin")
 
-EXIT_PASS, EXIT_FAIL, EXIT_INPUT = 0, 1, 2
+EXIT_PASS, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
 
 def starter_text(kind: str) -> str:
@@ -85,6 +86,21 @@ def _print_table(case_id: str | None, status: str, rows, warnings) -> None:
         print("warnings:")
         for line in warnings:
             print(f"  - {line}")
+
+
+def _strict(value):
+    """JSON-safe copy: NaN and infinities become null (strict JSON has neither)."""
+    if isinstance(value, float):
+        return value if value == value and abs(value) != float("inf") else None
+    if isinstance(value, dict):
+        return {k: _strict(v) for k, v in value.items()}
+    if isinstance(value, list | tuple):
+        return [_strict(v) for v in value]
+    return value
+
+
+def _dumps(payload) -> str:
+    return json.dumps(_strict(payload), indent=2, ensure_ascii=False, allow_nan=False, default=str)
 
 
 def _value(block: dict, name: str):
@@ -170,7 +186,7 @@ def _check(args) -> int:
     payload = result.to_json_dict()
     status = str(getattr(result, "status", payload.get("status")))
     if args.json:
-        print(json.dumps(payload, indent=2, ensure_ascii=False))
+        print(_dumps(payload))
         return EXIT_FAIL if status == "fail" else EXIT_PASS
     print(f"case {case.case_id}: status {status.upper()}")
     for line in _governing_lines(payload) + _condition_lines(payload):
@@ -260,6 +276,22 @@ def _lab(args) -> int:
     return subprocess.call(command)
 
 
+def _compare(args) -> int:
+    from finkit.compare import compare
+
+    comparison = compare(args.old, args.new)
+    if args.json:
+        print(_dumps(comparison.to_json_dict()))
+    else:
+        print(comparison.text())
+    if args.html:
+        from finkit.notes import atomic_write
+
+        written = atomic_write(Path(args.html), comparison.html())
+        print(f"comparison page: {written}", file=sys.stderr if args.json else sys.stdout)
+    return EXIT_PASS
+
+
 def _schema(args) -> int:
     from finkit.json_schema import case_schema, results_schema
 
@@ -295,6 +327,7 @@ def _batch(args) -> int:
         scheduler=args.scheduler,
         show_code=args.show_code,
         progress=not args.no_progress and sys.stderr.isatty(),
+        compare_to=args.compare_to,
     )
     counts = result.counts()
     print(
@@ -339,9 +372,13 @@ def build_parser() -> argparse.ArgumentParser:
         description="Finned surfaces and heat sinks for air cooling: check a case file, "
         "write a calculation note.",
         epilog="Exit codes: 0 pass, 1 the case fails its limit (batch: some variant), 2 input "
-        "error (batch: some variant could not be computed).",
+        "error (batch: some variant could not be computed), 3 internal error or environment "
+        "problem (disk, permissions; the details are logged).",
     )
     parser.add_argument("--version", action="version", version=f"finkit {__version__}")
+    parser.add_argument(
+        "--debug", action="store_true", help="show the traceback of an unexpected error"
+    )
     sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
 
     new = sub.add_parser("new", help="write a commented starter case file")
@@ -366,6 +403,20 @@ def build_parser() -> argparse.ArgumentParser:
         "(default: the template of the case's kind)",
     )
     note.set_defaults(func=_note)
+
+    comp = sub.add_parser(
+        "compare",
+        help="what changed between two revisions of a case, and what it did to the verdict",
+        description="Compare two revisions (each a case file, a note folder or a results.json): "
+        "inputs changed (as entered and in SI), results at the governing condition, conditions "
+        "that changed status, warnings, software; and each input's share of the change of the "
+        "governing margin.",
+    )
+    comp.add_argument("old", help="the earlier revision")
+    comp.add_argument("new", help="the later revision")
+    comp.add_argument("--json", action="store_true", help="print JSON instead of text")
+    comp.add_argument("--html", metavar="FILE", help="also write an HTML page")
+    comp.set_defaults(func=_compare)
 
     schema = sub.add_parser(
         "schema",
@@ -428,27 +479,74 @@ def build_parser() -> argparse.ArgumentParser:
     batch.add_argument("--template", metavar="NOTEBOOK", help="notebook template to use")
     batch.add_argument("--show-code", action="store_true", help="keep code cells in the notes")
     batch.add_argument("--no-progress", action="store_true", help="no progress bar")
+    batch.add_argument(
+        "--compare-to",
+        metavar="DIR",
+        help="an earlier batch folder: mark each variant whose status or governing margin "
+        "changed since, with the change in kelvin",
+    )
     batch.set_defaults(func=_batch)
     return parser
 
 
 def main(argv: list[str] | None = None) -> int:
-    """Run the ``finkit`` command; returns the exit code (0 pass, 1 fail, 2 input error)."""
+    """Run the ``finkit`` command; returns the exit code.
+
+    0 pass (or the command did its job), 1 the case fails its limit, 2 the input is wrong,
+    3 an internal error or a problem of the environment (disk, permissions): one line naming
+    it and the log file with the details, never a traceback (``--debug`` shows it).
+    """
     parser = build_parser()
     try:
         args = parser.parse_args(argv)
     except SystemExit as exc:  # --help, --version, or a usage error (argparse exits 2)
         return int(exc.code or 0)
+    debug = bool(getattr(args, "debug", False))
     try:
-        return args.func(args)
+        with warnings.catch_warnings():
+            # numpy's RuntimeWarnings are the model's business, not the user's screen.
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return args.func(args)
     except FinkitError as exc:
         lines = getattr(exc, "errors", None) or str(exc).splitlines() or [type(exc).__name__]
         for line in lines:
-            print(line, file=sys.stderr)
+            print(_shortened(line), file=sys.stderr)
         return EXIT_INPUT
     except KeyboardInterrupt:
         print("interrupted", file=sys.stderr)
         return 130
+    except BrokenPipeError:  # output piped into head or the like
+        return EXIT_PASS
+    except Exception as exc:  # noqa: BLE001 - the top-level guard: one line, never a traceback
+        if debug:
+            raise
+        log = _log_traceback(exc)
+        where = f"; details in {log}" if log else ""
+        kind = "environment problem" if isinstance(exc, OSError) else "internal error"
+        print(
+            f"finkit {getattr(args, 'command', '')}: {kind}: {type(exc).__name__}: "
+            f"{_shortened(str(exc))}{where} (run with --debug to see the traceback)",
+            file=sys.stderr,
+        )
+        return EXIT_INTERNAL
+
+
+def _shortened(text: str, limit: int = 400) -> str:
+    return text if len(text) <= limit else text[: limit - 1] + "…"
+
+
+def _log_traceback(exc: BaseException) -> str | None:
+    """Write the traceback of an unexpected error to a log file; its path, or None."""
+    import tempfile
+    import traceback
+
+    try:
+        handle, name = tempfile.mkstemp(prefix="finkit-error-", suffix=".log")
+        with os.fdopen(handle, "w", encoding="utf-8") as log:
+            log.write("".join(traceback.format_exception(exc)))
+        return name
+    except OSError:
+        return None
 
 
 if __name__ == "__main__":

@@ -12,6 +12,7 @@ an array, so every point of every plot comes from the same vectorised code as th
 from __future__ import annotations
 
 import datetime as _dt
+import json
 from dataclasses import dataclass, field, replace
 from typing import Any
 
@@ -189,6 +190,8 @@ class CaseResult:
             "created": self.created,
             "inputs_sha256": case_inputs_sha256(self.case),
             "finkit_version": finkit.__version__,
+            # The case as entered: what `finkit compare` diffs, and what the hash is checked on.
+            "inputs": json.loads(json.dumps(self.case.entered, default=str)),
         }
         table = self.conditions
         limit = getattr(self.case, "limit", None)
@@ -431,13 +434,20 @@ def _c(kelvin):
     return float(np.asarray(kelvin)) - ZERO_CELSIUS
 
 
-def solve(inputs: SinkInputs, **replacements) -> SinkSolution:
-    """Temperatures at the stated power; ``replacements`` swap whole input objects."""
+def solve(inputs: SinkInputs, *, airflow=None, **replacements) -> SinkSolution:
+    """Temperatures at the stated power; ``replacements`` swap whole input objects.
+
+    ``airflow``: :func:`airflow_of` the same inputs, to share between solves.
+    """
     i = replace(inputs, **replacements) if replacements else inputs
-    return solve_temperatures(i.geometry, i.material, i.source, i.air, i.flow, i.bypass, i.options)
+    return solve_temperatures(
+        i.geometry, i.material, i.source, i.air, i.flow, i.bypass, i.options, airflow=airflow
+    )
 
 
-def allowable(inputs: SinkInputs, margin: float | None = None, **replacements) -> SinkSolution:
+def allowable(
+    inputs: SinkInputs, margin: float | None = None, *, airflow=None, **replacements
+) -> SinkSolution:
     """State at the allowable power: limit node at the limit less ``margin`` [K]."""
     i = replace(inputs, **replacements) if replacements else inputs
     margin = i.required_margin if margin is None else margin
@@ -451,7 +461,19 @@ def allowable(inputs: SinkInputs, margin: float | None = None, **replacements) -
         np.asarray(i.limit_temperature, float) - margin,
         i.bypass,
         i.options,
+        airflow=airflow,
     )
+
+
+def airflow_of(inputs: SinkInputs):
+    """The airflow of a case (forced convection; None in still air), solved once so that the
+    two design questions asked of the same inputs share it (it does not depend on power)."""
+    from finkit.sink import solve_case_airflow
+
+    if isinstance(inputs.flow, NaturalConvection):
+        return None
+    i = inputs
+    return solve_case_airflow(i.geometry, i.flow, i.air, i.bypass, i.options)
 
 
 @dataclass(frozen=True)
@@ -486,16 +508,17 @@ def solve_condition(inputs: SinkInputs) -> ConditionState:
     The one place where a condition's results are computed; the nominal case and every scenario
     go through it (:func:`finkit.review.run_scenarios`).
     """
-    sol = solve(inputs)
+    airflow = airflow_of(inputs)  # shared by the three solves below
+    sol = solve(inputs, airflow=airflow)
     t_in = float(np.max(inputs.air.inlet_temperature))
     usable_limit = inputs.limit_temperature - inputs.required_margin
     if usable_limit > t_in + 1e-6:
-        at_margin = allowable(inputs)
+        at_margin = allowable(inputs, airflow=airflow)
         allowable_power = float(at_margin.power)
     else:
         at_margin, allowable_power = None, 0.0
     if inputs.limit_temperature > t_in + 1e-6:
-        power_at_limit = float(allowable(inputs, margin=0.0).power)
+        power_at_limit = float(allowable(inputs, margin=0.0, airflow=airflow).power)
     else:
         power_at_limit = 0.0
     node_t = float(sol.node_temperature(inputs.limit_node))
@@ -579,6 +602,20 @@ def _merged_warnings(table, flags) -> list[str]:
     return out
 
 
+def _named_geometry(case, exc: PropertyRangeError) -> PropertyRangeError:
+    """A property-range failure that comes from fin gaps too narrow for air, said so."""
+    sink = case.sink
+    if sink.type == "plate-fin" and sink.fins is not None and sink.fins.count > 1:
+        n, t, w = sink.fins.count, sink.fins.thickness, sink.base.width
+        gap = (w - n * t) / (n - 1)
+        if gap < 0.5e-3 or gap < 0.5 * t:
+            return PropertyRangeError(
+                f"sink.fins: fin gap {gap * 1e3:.2f} mm is too small for {n} fins of "
+                f"{t * 1e3:.2g} mm on {w * 1e3:.0f} mm (the air cannot carry the heat: {exc})"
+            )
+    return exc
+
+
 def run_case(case) -> CaseResult:
     """Solve a validated case at every operating condition and check it against its limit."""
     if getattr(case, "kind", "heat-sink") == "single-fin":
@@ -586,9 +623,12 @@ def run_case(case) -> CaseResult:
     from finkit.review import run_scenarios, scenarios_from_blocks
 
     inputs = sink_inputs(case)
-    inputs, calibration = _calibrated(case, inputs)
     scenarios = scenarios_from_blocks(case.scenarios) if case.scenarios else ()
-    table = run_scenarios(inputs, scenarios, case.air.flow.fan)
+    try:
+        inputs, calibration = _calibrated(case, inputs)
+        table = run_scenarios(inputs, scenarios, case.air.flow.fan)
+    except PropertyRangeError as exc:
+        raise _named_geometry(case, exc) from None
     governing, nominal = table.governing_row, table.rows[0]
     review = _review(case, inputs, governing.inputs, table, calibration)
     warnings = _merged_warnings(table, review.flags)

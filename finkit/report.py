@@ -23,6 +23,7 @@ import functools
 import math
 from collections.abc import Iterable, Mapping
 from contextlib import contextmanager
+from pathlib import Path
 from typing import Any
 
 import numpy as np
@@ -75,6 +76,8 @@ __all__ = [
     "sweep_names",
     "title_block",
     "verdict_page",
+    "changes_since_line",
+    "changes_since_section",
     "case_from_parameters",
     "plot_figures",
     "at_governing",
@@ -534,6 +537,7 @@ def verdict_page(result, note_time: str = "") -> present.Fragment:
             f'<p class="fk-small">Why it governs: {present.escape(table.reason)}.</p></div>'
         )
     )
+    parts.append(changes_since_line(result))
     rise = gov.node_temperature - gov.inlet_temperature
     share = f" ({gov.margin / rise * 100:.0f} % of the rise)" if rise > 0 else ""
     checks = [
@@ -647,6 +651,95 @@ def verdict_page(result, note_time: str = "") -> present.Fragment:
     )
 
 
+_COMPARISONS: dict[int, tuple[Any, Any]] = {}
+
+
+def changes_since(result):
+    """The comparison of this case with its ``previous_revision`` (None without one).
+
+    Solved once per result (the page-1 line and the section share it). A previous revision
+    that cannot be read gives a :class:`finkit.errors.FinkitError` instance instead, which the
+    note shows as text.
+    """
+    previous = getattr(result.case, "previous_revision", None)
+    if previous is None:
+        return None
+    cached = _COMPARISONS.get(id(result))
+    if cached is not None and cached[0] is result:
+        return cached[1]
+    from finkit.compare import Revision, compare, load_revision
+    from finkit.errors import FinkitError
+
+    current = Revision(
+        label=f"this note ({result.case.case_id})",
+        source="case",
+        entered=result.case.entered,
+        results=result.to_json_dict(),
+        is_hash_ok=True,
+    )
+    try:
+        comparison: Any = compare(load_revision(previous.source), current)
+    except FinkitError as exc:
+        comparison = exc
+    if len(_COMPARISONS) > 8:
+        _COMPARISONS.clear()
+    _COMPARISONS[id(result)] = (result, comparison)
+    return comparison
+
+
+def changes_since_line(result) -> present.Fragment:
+    """One line for page 1: what changed since the previous revision and what it did."""
+    comparison = changes_since(result)
+    if comparison is None:
+        return present.Fragment("")
+    revision = result.case.previous_revision.revision
+    if isinstance(comparison, Exception):
+        return present.text(
+            f"Changes since revision {revision}: not compared ({comparison}).", css_class="fk-small"
+        )
+    flag = (
+        " The previous revision's results do not match its inputs (edited by hand?)."
+        if comparison.old.is_hash_ok is False
+        else ""
+    )
+    return present.text(
+        f"Changes since revision {revision}: {comparison.summary_line()}.{flag}",
+        css_class="fk-changes",
+    )
+
+
+def changes_since_section(result) -> present.Fragment:
+    """The changes since the previous revision in full (empty without a previous revision)."""
+    from finkit.compare import changes_table
+
+    comparison = changes_since(result)
+    if comparison is None:
+        return present.Fragment("")
+    revision = result.case.previous_revision.revision
+    parts: list[Any] = [present.heading(f"Changes since revision {revision}", 2)]
+    if isinstance(comparison, Exception):
+        parts.append(present.text(f"The previous revision could not be compared: {comparison}"))
+        return _join(*parts)
+    g = comparison.governing
+    parts.append(
+        present.text(
+            f"Compared with {Path(comparison.old.label).name} ({comparison.old.source}). Status "
+            f"{g['old_status']} -> {g['new_status']}; governing condition {g['old_condition']} "
+            f"-> {g['new_condition']}"
+            + (
+                f"; governing margin {g['old_margin']:.3g} K -> {g['new_margin']:.3g} K "
+                f"({comparison.margin_change:+.3g} K)."
+                if comparison.margin_change is not None
+                else "."
+            )
+        )
+    )
+    if comparison.notes:
+        parts.append(_bullets(comparison.notes))
+    parts.append(changes_table(comparison))
+    return _join(*parts)
+
+
 def _one_line(text: str, limit: int = 220) -> str:
     line = " ".join(str(text).split())
     return line if len(line) <= limit else line[: limit - 1] + "…"
@@ -698,7 +791,7 @@ _ABSOLUTE = {
     "tip_temperature",
     "temperature",
 }
-_NOT_INPUTS = {"case_id", "kind", "title_block"}
+_NOT_INPUTS = {"case_id", "kind", "title_block", "previous_revision"}
 
 #: Blocks whose items (scenarios, measurements, tolerances) take one row each in the inputs
 #: table; their own sections show them in full.
@@ -710,7 +803,6 @@ _TEXT_FIELDS = {"name", "description", "source", "basis", "distribution"}
 _NOTABLE_DEFAULTS = {
     "surroundings_temperature",
     "altitude",
-    "pressure_factor",
     "rating_density",
     "arrangement",
     "required_margin",
@@ -720,7 +812,6 @@ _NOTABLE_DEFAULTS = {
     "measurement_uncertainty",
     "apply",
     "target",
-    "exponent",
     "ambient_temperature",
 }
 
@@ -864,19 +955,32 @@ def inputs_table(result) -> present.Fragment:
                 rows.append(path[:2])
             continue
         rows.append((_path_text(path), _entered_text(value), si_text))
-    for k, row in enumerate(rows):
+    # Scenarios, measurements and tolerances are shown in full in their own sections (page 1
+    # and section 2, the calibration table, the tolerance table): one row per block here.
+    where = {
+        "scenarios": "every condition on page 1 and in section 2",
+        "measurements": "the calibration table, section 2",
+        "tolerances": "the tolerance table, section 3",
+    }
+    out_rows, shown_blocks = [], set()
+    for row in rows:
         if isinstance(row, tuple) and row in grouped:
-            items = grouped[row]
-            label = _lookup(entered, row)
-            name = label.get("name") if isinstance(label, Mapping) else None
-            head = f"{row[0]}[{name}]" if name else _path_text(row)
-            entered_text = "; ".join(
-                f"{f}: {e}" for f, e, _ in items if f not in ("name", "description")
-            )
-            si_parts = "; ".join(
-                f"{f} = {v}" for f, e, v in items if f not in _TEXT_FIELDS and v != e
-            )
-            rows[k] = (head, entered_text, si_parts or "as entered")
+            block = row[0]
+            if block in shown_blocks:
+                continue
+            shown_blocks.add(block)
+            names = [
+                str(item.get("name", key)) if isinstance(item, Mapping) else str(key)
+                for key, item in (
+                    enumerate(entered[block])
+                    if isinstance(entered[block], list)
+                    else entered[block].items()
+                )
+            ]
+            out_rows.append((block, ", ".join(names), f"in full in {where.get(block, 'the note')}"))
+        else:
+            out_rows.append(row)
+    rows = out_rows
     for path, value in _leaves(si):
         if path[0] in _NOT_INPUTS or path in seen or value in (None, [], {}):
             continue

@@ -1627,4 +1627,41 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
                 f"(Bar-Cohen & Rohsenow optimum about {s_opt * 1e3:.1f} mm at a "
                 f"{excess:.0f} K base rise); the channels choke the buoyant flow and collect dust"
             )
+    # 5. fin gaps and fins that cannot be made (forced and natural convection)
+    flags += _manufacturing_flags(case)
     return flags
+
+
+def _manufacturing_flags(case) -> list[str]:
+    """Fin gaps thinner than the fins, or outside the trade study's manufacturing bounds.
+
+    The bounds are :class:`finkit.trade.ManufacturingBounds` (the case's ``trade_study`` bounds
+    when it gives them): common practice for extruded sinks, no source.
+    """
+    from finkit.explore_schema import to_bounds
+    from finkit.trade import ManufacturingBounds
+
+    sink = case.sink
+    if sink.type != "plate-fin" or sink.fins is None:
+        return []
+    study = getattr(case, "trade_study", None)
+    bounds = to_bounds(study) if study is not None else ManufacturingBounds()
+    n, t, h = sink.fins.count, sink.fins.thickness, sink.fins.height
+    gap = (sink.base.width - n * t) / (n - 1) if n > 1 else float("inf")
+    out = []
+    if gap < t:
+        out.append(
+            f"sink.fins: fin gap {gap * 1e3:.2f} mm is narrower than the {t * 1e3:.2f} mm fins "
+            f"({n} fins on {sink.base.width * 1e3:.0f} mm); hard to extrude and quick to foul"
+        )
+    elif gap < bounds.min_fin_gap:
+        out.append(
+            f"sink.fins: fin gap {gap * 1e3:.2f} mm is below the {bounds.min_fin_gap * 1e3:.2f} "
+            "mm manufacturing minimum of the trade study (common practice, no source)"
+        )
+    if gap > 0 and h / gap > bounds.max_fin_aspect_ratio:
+        out.append(
+            f"sink.fins: fin height over gap {h / gap:.1f} exceeds the "
+            f"{bounds.max_fin_aspect_ratio:g} the trade study allows (common practice, no source)"
+        )
+    return out

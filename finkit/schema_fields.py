@@ -9,6 +9,7 @@ prefixes with the field's path. Used by :mod:`finkit.case`, :mod:`finkit.review_
 from __future__ import annotations
 
 import json
+import math
 from typing import Annotated
 
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field
@@ -67,10 +68,25 @@ def format_bound(value_si: float, kind: str, unit: str | None = None) -> str:
     return format_quantity(value_si, kind, SHOW_UNIT[kind] if unit is None else unit)
 
 
-def quantity(kind: str, *, gt=None, ge=None, le=None, show: str | None = None):
+#: Unit symbols named in the hint for an implausible bare number, by kind.
+_SI_WORDS = {"length": "metres", "volume_flow": "m^3/s", "velocity": "m/s"}
+
+
+def quantity(
+    kind: str,
+    *,
+    gt=None,
+    ge=None,
+    le=None,
+    show: str | None = None,
+    bare_max: float | None = None,
+    hint: str = "",
+):
     """A float field given with a unit in the case file and stored in SI.
 
-    ``gt``/``ge``/``le`` are bounds in SI; ``show`` is the unit used to print a bound.
+    ``gt``/``ge``/``le`` are bounds in SI; ``show`` is the unit used to print a bound. A bare
+    number (no unit) above ``bare_max`` [SI] is refused with a hint that it was read in SI and
+    probably meant ``hint`` (``fin height: 30 m ... did you mean '30 mm'?``).
     """
 
     def limit(bound: float) -> str:
@@ -81,6 +97,14 @@ def quantity(kind: str, *, gt=None, ge=None, le=None, show: str | None = None):
             x = to_si(value, kind, "")
         except InputError as exc:
             raise fail(str(exc)) from None
+        if not math.isfinite(x):
+            raise fail(f"must be a finite number (got {shown(value)})")
+        is_bare = isinstance(value, int | float) and not isinstance(value, bool)
+        if bare_max is not None and is_bare and x > bare_max:
+            raise fail(
+                f"{value:g} {_SI_WORDS.get(kind, 'SI')} is implausible here: bare numbers are SI "
+                f"{_SI_WORDS.get(kind, 'units')}; did you mean '{value:g} {hint}'?"
+            )
         if gt is not None and not x > gt:
             raise fail(f"must be greater than {limit(gt)} (got {shown(value)})")
         if ge is not None and not x >= ge:

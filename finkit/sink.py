@@ -33,8 +33,6 @@ Every function here takes SI floats or numpy arrays that broadcast together and 
 from __future__ import annotations
 
 import contextlib
-import dataclasses
-import hashlib
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Literal
@@ -352,6 +350,14 @@ def _property_range_context():
             "the sink runs far too hot or the air too cold for this case; check source.power, "
             f"air.inlet_temperature, air.flow and the sink's size ({exc})"
         ) from None
+
+
+def solve_case_airflow(geometry, flow, air, bypass=None, options=DEFAULT_OPTIONS):
+    """:func:`solve_airflow` with the solvers' one-line message when the air leaves the
+    property table; the result can be passed to :func:`solve_temperatures` and
+    :func:`solve_allowable_power` as ``airflow`` (it does not depend on the power)."""
+    with _property_range_context():
+        return solve_airflow(geometry, flow, air, bypass, options)
 
 
 def _check_node(node: str) -> None:
@@ -846,52 +852,16 @@ def _assemble(
     )
 
 
-_AIRFLOW_CACHE: list[tuple[tuple, _Airflow]] = []
-
-
-def _fingerprint(value):
-    """A hashable summary of the inputs' content: arrays by shape and bytes, dataclasses by
-    their fields, callables by identity (they are held by the inputs while cached)."""
-    if dataclasses.is_dataclass(value) and not isinstance(value, type):
-        return (type(value).__name__,) + tuple(
-            _fingerprint(getattr(value, f.name)) for f in dataclasses.fields(value)
-        )
-    if isinstance(value, (tuple, list)):
-        return tuple(_fingerprint(v) for v in value)
-    if isinstance(value, np.ndarray) or isinstance(value, np.generic):
-        a = np.ascontiguousarray(value)
-        return (a.shape, a.dtype.str, hashlib.sha1(a.tobytes()).hexdigest())
-    if callable(value):
-        return ("callable", id(value))
-    return value
-
-
-_AIRFLOW_CACHE_SIZE = 8
-
-
-def _cached_airflow(geometry, flow, air, bypass, options) -> _Airflow:
-    """:func:`solve_airflow`, remembered for the last few input objects.
-
-    The airflow does not depend on the power, so the two design questions asked of the same
-    inputs (temperatures, then allowable power at the limit and at the limit less the margin)
-    share one solution. Entries are matched on the content of the inputs (array values, not
-    object identity), so an array changed in place is never answered from the cache.
-    """
-    key = _fingerprint((geometry, flow, air, bypass, options))
-    for cached_key, value in _AIRFLOW_CACHE:
-        if cached_key == key:
-            return value
-    value = solve_airflow(geometry, flow, air, bypass, options)
-    _AIRFLOW_CACHE.insert(0, (key, value))
-    del _AIRFLOW_CACHE[_AIRFLOW_CACHE_SIZE:]
-    return value
-
-
 def _solve_forced(
-    geometry, material, source, air, flow, bypass, options, *, power=None, limit=None
+    geometry, material, source, air, flow, bypass, options, *, power=None, limit=None, airflow=None
 ):
-    """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``."""
-    airflow = _cached_airflow(geometry, flow, air, bypass, options)
+    """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``.
+
+    ``airflow``: the :func:`solve_airflow` result of these same inputs, when the caller has it
+    (the airflow does not depend on the power, so both design questions can share one).
+    """
+    if airflow is None:
+        airflow = solve_airflow(geometry, flow, air, bypass, options)
     inlet = air_properties(air.inlet_temperature, air.pressure)
     is_shrouded = _is_shrouded(bypass)
     t_in = np.asarray(air.inlet_temperature, float)
@@ -1179,6 +1149,8 @@ def solve_temperatures(
     flow: Flow,
     bypass: Bypass | None = None,
     options: ModelOptions = DEFAULT_OPTIONS,
+    *,
+    airflow=None,
 ) -> SinkSolution:
     """At this power, how hot does each node get?
 
@@ -1198,6 +1170,9 @@ def solve_temperatures(
         Duct clearance round the sink (forced convection only); None = fully shrouded.
     options : ModelOptions, optional
         Model choices, calibration and fouling allowances.
+    airflow : optional
+        :func:`solve_airflow` of these same inputs, to reuse (forced convection); solved here
+        when not given. No result is remembered between calls.
 
     Returns
     -------
@@ -1211,7 +1186,15 @@ def solve_temperatures(
             )
             return state[0]
         return _solve_forced(
-            geometry, material, source, air, flow, bypass, options, power=source.power
+            geometry,
+            material,
+            source,
+            air,
+            flow,
+            bypass,
+            options,
+            power=source.power,
+            airflow=airflow,
         )
 
 
@@ -1225,13 +1208,16 @@ def solve_allowable_power(
     limit_temperature,
     bypass: Bypass | None = None,
     options: ModelOptions = DEFAULT_OPTIONS,
+    *,
+    airflow=None,
 ) -> SinkSolution:
     """At this temperature limit on a node, how much power can the sink carry?
 
     The power in ``source`` is ignored; the returned solution is the state at the allowable
     power (its ``power`` field), with the limit node exactly at ``limit_temperature`` [K].
     Air heating and the film-temperature property feedback are included. Where the inlet air
-    is already at or above the limit, the allowable power is zero.
+    is already at or above the limit, the allowable power is zero. ``airflow``: as in
+    :func:`solve_temperatures`.
     """
     _check_node(limit_node)
     limit = (limit_node, np.asarray(limit_temperature, float))
@@ -1245,4 +1231,6 @@ def solve_allowable_power(
         with _property_range_context():
             return _solve_natural(geometry, material, source, air, flow, options, limit=limit)[0]
     with _property_range_context():
-        return _solve_forced(geometry, material, source, air, flow, bypass, options, limit=limit)
+        return _solve_forced(
+            geometry, material, source, air, flow, bypass, options, limit=limit, airflow=airflow
+        )

@@ -319,6 +319,8 @@ def test_printed_plate_fin_note_has_the_verdict_on_page_one(printed_demo_note):
     assert f"{allowed:.1f} W" in first
     assert f"{node:.1f} °C" in first
     assert "Prepared by" in first and "Approved by" in first  # the sign-off block
+    # The previous signed revision: what changed and what it did to the governing margin.
+    assert "Changes since revision A:" in first and "governing margin" in first
     assert "SHA-256" not in first  # software details are in the provenance footer
     assert "SHA-256" in pages[-1]
 

@@ -314,3 +314,24 @@ def test_an_array_changed_in_place_is_not_answered_from_the_airflow_cache():
         FanDriven(FAN),
     )
     np.testing.assert_allclose(changed.volume_flow, fresh.volume_flow)
+
+
+def test_two_callables_for_an_extra_pressure_drop_give_two_airflows():
+    # Regression: the airflow was once remembered in a module-level cache keyed partly on the
+    # id() of callables; a new callable could reuse an old id and get another design's flow.
+    # Identity (no published value): a larger series loss must give less flow.
+    from finkit.sink import ModelOptions
+
+    fan = FanCurve(
+        volume_flow=[0, 0.0024, 0.0047, 0.0071, 0.0094], static_pressure=[75, 65, 47, 25, 0]
+    )
+    sink = PlateFinSink(0.08, 0.06, 0.005, 14, 0.0012, 0.03)
+    args = (sink, SinkMaterial(200.0, 0.85), HeatSource(40.0, 0.025, 0.025, 0.35, 0.03))
+    air = Air(inlet_temperature=323.15, pressure=101325.0)
+    flows = []
+    for scale in (1.0, 20.0):
+        options = ModelOptions(extra_pressure_drop=lambda q, s=scale: s * 1e5 * q**2)
+        flows.append(
+            float(solve_temperatures(*args, air, FanDriven(fan), None, options).volume_flow)
+        )
+    assert flows[1] < flows[0]

@@ -1,0 +1,85 @@
+"""Hostile, mistaken or unlucky input gets one line and a documented exit code, never a
+traceback (software behaviour; no physics).
+
+Exit codes (README): 0 pass, 1 fails its limit, 2 input error, 3 internal error or
+environment problem. Each case here runs ``finkit`` in a subprocess as a user would.
+"""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+PIN = (ROOT / "demo_cases" / "nb300-pin-ducted.yaml").read_text(encoding="utf-8")
+
+
+def finkit(*args: str, cwd: Path) -> subprocess.CompletedProcess:
+    return subprocess.run(
+        [sys.executable, "-m", "finkit.cli", *args],
+        capture_output=True,
+        text=True,
+        check=False,
+        cwd=cwd,
+        timeout=120,
+    )
+
+
+def _bomb() -> str:
+    text = 'a: &a ["lol", "lol", "lol", "lol", "lol", "lol", "lol", "lol", "lol"]\n'
+    for i in range(1, 9):
+        text += f"{chr(97 + i)}: &{chr(97 + i)} [" + ",".join([f"*{chr(96 + i)}"] * 9) + "]\n"
+    return text
+
+
+HOSTILE = {
+    "latin-1": (
+        "case_id: x\nkind: heat-sink\ntitle_block: {project: caf\xe9}\n".encode("latin-1"),
+        "not UTF-8 text",
+    ),
+    "utf-16": (PIN.encode("utf-16"), "not UTF-8 text"),
+    "binary": (bytes(range(256)) * 4, "not UTF-8 text"),
+    "alias bomb": (_bomb().encode(), "anchors and aliases"),
+    "deep nesting": (
+        ("case_id: x\nkind: heat-sink\nsource: " + "[" * 1000 + "]" * 1000).encode(),
+        "nested more than",
+    ),
+    "list as a key": (b"case_id: x\nkind: heat-sink\n? [a, b]\n: 1\n", "a key must be plain text"),
+    "infinite temperature": (PIN.replace("40 degC", "1e999 degC").encode(), "finite number"),
+    "infinite power": (PIN.replace("60 W", "1e309 W").encode(), "finite number"),
+    "bare metres": (PIN.replace("height: 25 mm", "height: 25").encode(), "did you mean '25 mm'"),
+}
+
+
+@pytest.mark.parametrize("name", sorted(HOSTILE))
+def test_hostile_case_files_get_one_line_and_exit_2(tmp_path, name):
+    content, message = HOSTILE[name]
+    (tmp_path / "case.yaml").write_bytes(content)
+    run = finkit("check", "case.yaml", cwd=tmp_path)
+    assert run.returncode == 2, run.stderr
+    assert "Traceback" not in run.stderr + run.stdout
+    assert message in run.stderr
+
+
+def test_an_environment_problem_exits_3_with_one_line_and_a_log(tmp_path):
+    (tmp_path / "case.yaml").write_text(PIN, encoding="utf-8")
+    (tmp_path / "out").write_text("a file where a folder should be", encoding="utf-8")
+    run = finkit("note", "case.yaml", "--out", "out/notes", cwd=tmp_path)
+    assert run.returncode == 3
+    assert "Traceback" not in run.stderr
+    line = run.stderr.strip().splitlines()[-1]
+    assert "environment problem" in line and "details in" in line
+    log = Path(line.split("details in ")[1].split(" (run with")[0])
+    assert "Traceback" in log.read_text(encoding="utf-8")
+    assert (tmp_path / "out").read_text(encoding="utf-8").startswith("a file")  # untouched
+
+
+def test_check_json_is_strict_json(tmp_path):
+    (tmp_path / "case.yaml").write_text(PIN, encoding="utf-8")
+    run = finkit("check", "case.yaml", "--json", cwd=tmp_path)
+    assert run.returncode in (0, 1)
+    json.loads(run.stdout, parse_constant=lambda c: pytest.fail(f"{c} in strict JSON"))
