@@ -106,6 +106,7 @@ INDEX_HTML = "index.html"
 SUMMARY_CSV = "summary.csv"
 SUMMARY_JSON = "summary.json"
 _RUN_DIR = ".finkit-batch-run"
+_LOCK_FILE = ".finkit-batch.lock"
 
 
 _PATH = re.compile(r"[A-Za-z_][A-Za-z0-9_]*(\[\d+\])*(\.[A-Za-z_][A-Za-z0-9_]*(\[\d+\])*)*")
@@ -377,11 +378,13 @@ def _read_csv(path: Path) -> list[VariantRow]:
         raise InputError(f"variant table {str(path)!r} cannot be read ({exc.strerror})") from None
     except UnicodeDecodeError:
         raise InputError(f"variant table {str(path)!r} is not UTF-8 text") from None
+    # Standard CSV (RFC 4180: quoted cells, doubled quotes inside them, CRLF): only the
+    # delimiter is taken from the header line (comma, semicolon or tab), the rest is csv.excel.
     try:
-        dialect = csv.Sniffer().sniff(text.split("\n", 1)[0], delimiters=",;\t")
+        delimiter = csv.Sniffer().sniff(text.split("\n", 1)[0], delimiters=",;\t").delimiter
     except csv.Error:
-        dialect = csv.excel
-    lines = list(csv.reader(io.StringIO(text), dialect))
+        delimiter = ","
+    lines = list(csv.reader(io.StringIO(text, newline=""), csv.excel, delimiter=delimiter))
     if not lines or not any(c.strip() for c in lines[0]):
         raise InputError(f"variant table {str(path)!r} is empty; the first row names the columns")
     header = [c.strip() for c in lines[0]]
@@ -1374,6 +1377,41 @@ def _status_from_results(results: Mapping[str, Any] | None) -> str:
 
 
 def run_batch(
+    base: str | os.PathLike | Mapping[str, Any],
+    variants: str | os.PathLike | Sequence[Mapping[str, Any]],
+    out_dir: str | os.PathLike,
+    **options: Any,
+) -> BatchResult:
+    """Render the note of every variant of a base case, in parallel, and write the overview.
+
+    The batch folder is locked while the batch runs: a second batch on the same folder is
+    refused with one line (it would otherwise delete the first one's run folder and could have
+    a later re-run reuse a note of the wrong variant). A run folder left by a killed batch is
+    removed first. ``options`` are those of :func:`_run_batch_locked`, documented there.
+    """
+    import fcntl
+
+    out = Path(out_dir)
+    try:
+        out.mkdir(parents=True, exist_ok=True)
+        handle = open(out / _LOCK_FILE, "a+")  # noqa: SIM115 - held until the batch ends
+    except OSError as exc:
+        raise OSError(f"--out: cannot use '{out}' as the batch folder ({exc.strerror})") from exc
+    try:
+        try:
+            fcntl.flock(handle, fcntl.LOCK_EX | fcntl.LOCK_NB)
+        except BlockingIOError:
+            raise InputError(
+                f"--out: the batch folder '{out}' is in use by another finkit batch; wait for it "
+                "to finish or give another folder"
+            ) from None
+        shutil.rmtree(out / _RUN_DIR, ignore_errors=True)  # left by a killed batch
+        return _run_batch_locked(base, variants, out_dir, **options)
+    finally:
+        handle.close()
+
+
+def _run_batch_locked(
     base: str | os.PathLike | Mapping[str, Any],
     variants: str | os.PathLike | Sequence[Mapping[str, Any]],
     out_dir: str | os.PathLike,

@@ -83,3 +83,49 @@ def test_check_json_is_strict_json(tmp_path):
     run = finkit("check", "case.yaml", "--json", cwd=tmp_path)
     assert run.returncode in (0, 1)
     json.loads(run.stdout, parse_constant=lambda c: pytest.fail(f"{c} in strict JSON"))
+
+
+def test_variant_tables_are_read_as_standard_csv(tmp_path):
+    # Source: RFC 4180, Common Format and MIME Type for CSV Files (2005), section 2: a field
+    # with commas or quotes is quoted, a quote inside it is doubled; CRLF ends a record.
+    from finkit.batch import read_variant_table
+
+    table = tmp_path / "variants.csv"
+    table.write_bytes(
+        "\ufeffvariant,source.power [W],title_block.description\r\n"
+        'a,40,"plain, with a comma"\r\n'
+        'b,44,"the ""value"" build"\r\n'.encode("utf-8")
+    )
+    rows = read_variant_table(table)
+    assert [r.variant for r in rows] == ["a", "b"]
+    assert rows[0].overrides["title_block.description"] == "plain, with a comma"
+    assert rows[1].overrides["title_block.description"] == 'the "value" build'
+    demo = read_variant_table(ROOT / "demo_cases" / "nb-series-variants.csv")
+    assert demo[-1].overrides["title_block.description"].endswith('(12 fins, "value" build)')
+
+
+def test_summary_csv_neutralises_formula_text():
+    from finkit.batch import _spreadsheet_text
+
+    for text in ("=HYPERLINK(1)", "+1", "-cmd", "@SUM(A1)"):
+        assert _spreadsheet_text(text).startswith("'")
+    assert _spreadsheet_text("plain") == "plain"
+
+
+def test_a_second_batch_on_a_locked_folder_is_refused_and_a_killed_run_is_cleaned(tmp_path):
+    import fcntl
+
+    from finkit.batch import run_batch
+    from finkit.errors import InputError
+
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / ".finkit-batch-run").mkdir()  # as left by a batch killed with kill -9
+    with open(out / ".finkit-batch.lock", "a+") as held:  # another batch holds the folder
+        fcntl.flock(held, fcntl.LOCK_EX | fcntl.LOCK_NB)
+        with pytest.raises(InputError, match="is in use by another finkit batch"):
+            run_batch(ROOT / "demo_cases" / "nb300-pin-ducted.yaml", [{"variant": "a"}], out)
+    assert (out / ".finkit-batch-run").is_dir()  # the other batch's run folder is kept
+    with pytest.raises(InputError, match="does not exist"):  # found after taking the lock
+        run_batch(ROOT / "demo_cases" / "nb300-pin-ducted.yaml", tmp_path / "missing.csv", out)
+    assert not (out / ".finkit-batch-run").exists()
