@@ -241,10 +241,18 @@ def to_tolerances(block: TolerancesBlock) -> dict[str, Tolerance]:
     return out
 
 
+#: Most Monte Carlo samples a case may ask for: one vectorised solve holds every sample in
+#: memory (about 2 kB each with a fan), so 10^6 samples stay near 2 GB.
+MAX_SAMPLES = 1_000_000
+
+
+_MonteCarloSamples = _whole(1, MAX_SAMPLES)
+
+
 class MonteCarloBlock(_Model):
     """The ``monte_carlo:`` block: sample count, seed, sampling, tornado coverage."""
 
-    samples: _whole(1) = 100_000
+    samples: _MonteCarloSamples = 100_000
     seed: _whole(0) = 0
     sampling: Literal["random", "latin-hypercube"] = "random"
     tornado_coverage: _si("dimensionless", gt=0.0) = 0.95

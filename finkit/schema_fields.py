@@ -124,8 +124,8 @@ def quantity(
     ]
 
 
-def whole(minimum: int):
-    """A whole-number field of at least ``minimum`` (``3.0`` is accepted as 3)."""
+def whole(minimum: int, maximum: int | None = None):
+    """A whole-number field of at least ``minimum`` and at most ``maximum`` (``3.0`` is 3)."""
 
     def convert(value):
         ok = isinstance(value, int) and not isinstance(value, bool)
@@ -133,6 +133,8 @@ def whole(minimum: int):
             value, ok = int(value), True
         if not ok or value < minimum:
             raise fail(f"must be a whole number of at least {minimum} (got {shown(value)})")
+        if maximum is not None and value > maximum:
+            raise fail(f"must be at most {maximum} (got {value})")
         return value
 
     return Annotated[int, BeforeValidator(convert, json_schema_input_type=int | float)]

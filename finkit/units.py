@@ -55,6 +55,10 @@ __all__ = [
     "ureg",
 ]
 
+#: Longest value text read (a quantity with its unit is a few dozen characters; pint's parser
+#: takes time growing with the square of the length, so a megabyte of text is refused first).
+MAX_TEXT = 200
+
 #: finkit's own unit registry (the only one; do not create others, do not change its settings).
 ureg = pint.UnitRegistry()
 ureg.define("CFM = foot ** 3 / minute = cfm")
@@ -198,6 +202,14 @@ def to_si(value, kind: str, field: str) -> float:
     if isinstance(value, Real):
         return _from_number(value, kind, field)
 
+    if len(value) > MAX_TEXT:
+        raise InputError(
+            _message(
+                field,
+                f"a value of {len(value)} characters; at most {MAX_TEXT} are read "
+                f"(starts {value[:24]!r})",
+            )
+        )
     text = value.replace("℃", "degC").replace("℉", "degF")
     match = _NUMBER.match(text)
     if match is None:

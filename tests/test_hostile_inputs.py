@@ -129,3 +129,18 @@ def test_a_second_batch_on_a_locked_folder_is_refused_and_a_killed_run_is_cleane
     with pytest.raises(InputError, match="does not exist"):  # found after taking the lock
         run_batch(ROOT / "demo_cases" / "nb300-pin-ducted.yaml", tmp_path / "missing.csv", out)
     assert not (out / ".finkit-batch-run").exists()
+
+
+@pytest.mark.parametrize(
+    ("old", "new", "message"),
+    [
+        ("samples: 20000", "samples: 1000000000", "monte_carlo.samples: must be at most 1000000"),
+        ("power: 40 W ", "power: 40" + " " * 70000 + "W ", "at most 200 are read"),
+    ],
+)
+def test_size_caps_are_named_in_the_error(tmp_path, old, new, message):
+    text = (ROOT / "demo_cases" / "nb200-plate-fan.yaml").read_text(encoding="utf-8")
+    assert old in text
+    (tmp_path / "case.yaml").write_text(text.replace(old, new, 1), encoding="utf-8")
+    run = finkit("check", "case.yaml", cwd=tmp_path)
+    assert run.returncode == 2 and message in run.stderr and "Traceback" not in run.stderr
