@@ -481,12 +481,9 @@ def _apply(data: dict, path: tuple, value: Any, is_removed: bool) -> None:
             node = node[key]
         else:
             node = node.setdefault(key, {})
-    if is_removed:
-        if isinstance(node, dict):
-            node.pop(path[-1], None)
-    elif isinstance(node, list):
-        node[path[-1]] = value
-    else:
+    if is_removed and isinstance(node, dict):
+        node.pop(path[-1], None)
+    elif not is_removed:
         node[path[-1]] = value
 
 
