@@ -818,7 +818,7 @@ class Explorer:
         rows = [
             ("Junction", sol.junction_temperature, node == "junction"),
             ("Case", sol.case_temperature, node == "case"),
-            ("Base under source", sol.source_base_temperature, node == "base"),
+            ("Base under source, centre", sol.source_base_centre_temperature, node == "base"),
             ("Base, mean", sol.base_temperature, False),
             ("Fin tip", sol.fin_tip_temperature, False),
         ]

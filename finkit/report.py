@@ -1419,8 +1419,10 @@ def assumptions(result) -> present.Fragment:
         "enclosure (conservative for the junction).",
         f"Junction to case {_q(_f(result.solution.junction_to_case_resistance), *_R)} "
         "is taken from the device data for the heat-flow path into the sink.",
-        "The source is centred on the base and heats its footprint uniformly; the base "
-        "temperature under the source is the mean over the footprint (the peak is higher).",
+        "The source is centred on the base and heats its footprint uniformly. The case and "
+        "junction sit on the base temperature averaged over the footprint; the centre of the "
+        "footprint, the hottest point of the base, is reported too and is the base limit node "
+        "and the base touch temperature (spreading resistance to the centre, Song, Lee & Au).",
         "Fins are one-dimensional (temperature uniform across the fin thickness or pin "
         "section), with a uniform heat transfer coefficient over their surface, a constant "
         "conductivity, and an isothermal base at the mean base temperature (fin-efficiency "
@@ -1628,9 +1630,14 @@ def node_table(result) -> present.Fragment:
         ("Junction", sol.junction_temperature, limit_text if node == "junction" else ""),
         ("Case", sol.case_temperature, limit_text if node == "case" else ""),
         (
-            "Base under the source (footprint mean)",
-            sol.source_base_temperature,
+            "Base under the source, centre",
+            sol.source_base_centre_temperature,
             (limit_text + "; " if node == "base" else "") + "hottest sink surface",
+        ),
+        (
+            "Base under the source, footprint mean",
+            sol.source_base_temperature,
+            "the case sits on it",
         ),
         ("Base, mean (fin roots)", sol.base_temperature, ""),
         (
@@ -2539,7 +2546,7 @@ def cautions(result) -> present.Fragment:
     where = f" in the governing condition '{gov.name}'" if gov is not None else ""
     items = [
         f"Touchable hot surfaces: the base under the source reaches about "
-        f"{_c(_f(sol.source_base_temperature))}{where} (footprint mean; locally higher) and the "
+        f"{_c(_f(sol.source_base_centre_temperature))}{where} (at its centre) and the "
         f"fin tips {_c(_f(sol.fin_tip_temperature))}. If the sink or anything it heats can be "
         "touched, compare with the accessible-surface limits of the product's safety standard "
         "for the material and contact time that apply; finkit does not judge this."

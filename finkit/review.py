@@ -955,7 +955,7 @@ def touch_temperature_check(
     source = inputs.source if power is None else replace(inputs.source, power=power)
     sol = solve(inputs, air=air, source=source)
     temps = {
-        "base": float(sol.source_base_temperature),
+        "base": float(sol.source_base_centre_temperature),  # the hottest point of the base
         "fin_tips": float(sol.fin_tip_temperature),
     }
     temps = {k: v for k, v in temps.items() if k in surfaces}
@@ -1138,7 +1138,7 @@ def _node_values(sol: SinkSolution, nodes) -> np.ndarray:
     table = {
         "junction": sol.junction_temperature,
         "case": sol.case_temperature,
-        "base": sol.source_base_temperature,
+        "base": sol.source_base_centre_temperature,  # as the base limit node: the centre
         "fin_tip": sol.fin_tip_temperature,
     }
     return np.array(

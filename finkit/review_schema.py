@@ -371,7 +371,8 @@ class MeasurementBlock(_Model):
     name : str
         Short id of the point. [-]
     node : {"junction", "case", "base", "fin_tip"}
-        Where the temperature was measured; ``base`` is the base under the source. [-]
+        Where the temperature was measured; ``base`` is the base at the centre of the source
+        footprint (where a thermocouple under the device usually sits). [-]
     measured_temperature : float
         Measured steady temperature [K].
     power : float

@@ -278,6 +278,10 @@ class SinkSolution:
 
     All temperatures are absolute [K]; resistances [K W⁻¹]; flows [m³ s⁻¹]. Quantities that do
     not apply to the case (e.g. pressure drop in natural convection) are NaN.
+    ``source_base_temperature`` is the base under the source averaged over the footprint (the
+    case and junction sit on it); ``source_base_centre_temperature`` is its centre, the hottest
+    point of the base (spreading resistance to the centre, ``psi_max``), and the ``base`` limit
+    node.
     """
 
     power: np.ndarray
@@ -285,6 +289,7 @@ class SinkSolution:
     outlet_air_temperature: np.ndarray
     base_temperature: np.ndarray
     source_base_temperature: np.ndarray
+    source_base_centre_temperature: np.ndarray
     case_temperature: np.ndarray
     junction_temperature: np.ndarray
     fin_tip_temperature: np.ndarray
@@ -314,7 +319,7 @@ class SinkSolution:
         return {
             "junction": self.junction_temperature,
             "case": self.case_temperature,
-            "base": self.source_base_temperature,
+            "base": self.source_base_centre_temperature,
         }[node]
 
     @property
@@ -329,8 +334,15 @@ class SinkSolution:
         )
 
 
-def _above_base(node: str, below_source, source: HeatSource):
-    """Resistance from the mean base (fin roots) up to a limit node [K W⁻¹]."""
+def _above_base(node: str, below_source, source: HeatSource, below_source_centre=None):
+    """Resistance from the mean base (fin roots) up to a limit node [K W⁻¹].
+
+    ``below_source`` leads to the footprint-mean base temperature under the source (the case
+    and junction sit on it); ``below_source_centre`` to its centre, the hottest point of the
+    base, which is the ``base`` limit node when given (conservative).
+    """
+    if node == "base" and below_source_centre is not None:
+        return below_source_centre
     above = below_source
     if node in ("case", "junction"):
         above = above + source.interface_resistance
@@ -714,7 +726,8 @@ def _forced_convection(
 
 
 def _chain(geometry, material, source: HeatSource, sink_resistance):
-    """Spreading and base conduction below the source for a given sink resistance [K W⁻¹]."""
+    """Spreading (footprint mean), base conduction and spreading to the footprint centre
+    below the source for a given sink resistance [K W⁻¹]."""
     plate_area = np.multiply(geometry.base_width, geometry.base_length)
     spread = spreading_resistance_song_lee_au(
         source.footprint_area,
@@ -723,7 +736,7 @@ def _chain(geometry, material, source: HeatSource, sink_resistance):
         material.thermal_conductivity,
         sink_resistance,
     )
-    return spread.average, spread.one_dimensional
+    return spread.average, spread.one_dimensional, spread.maximum
 
 
 def _assemble(
@@ -735,6 +748,7 @@ def _assemble(
     base_conduction,
     sink_resistance,
     mass_flow,
+    spreading_centre=None,
     specific_heat,
     conv_tip_ratio,
     convection_heat_rate,
@@ -751,6 +765,8 @@ def _assemble(
     t_in = np.asarray(air.inlet_temperature, float)
     base = t_in + power * sink_resistance
     source_base = base + power * (spreading + base_conduction)
+    centre = spreading if spreading_centre is None else spreading_centre
+    source_base_centre = base + power * (centre + base_conduction)
     case = source_base + power * source.interface_resistance
     junction = case + power * source.junction_to_case_resistance
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -827,6 +843,7 @@ def _assemble(
         outlet_air_temperature=outlet,
         base_temperature=base,
         source_base_temperature=source_base,
+        source_base_centre_temperature=source_base_centre,
         case_temperature=case,
         junction_temperature=junction,
         fin_tip_temperature=tip,
@@ -871,12 +888,12 @@ def _solve_forced(
         conv = _forced_convection(
             geometry, material, film, airflow, inlet.density, is_shrouded, options
         )
-        r_sp, r_base = _chain(geometry, material, source, conv.sink_resistance)
+        r_sp, r_base, r_sp_centre = _chain(geometry, material, source, conv.sink_resistance)
         if limit is None:
             q = np.asarray(power, float)
         else:
             node, t_limit = limit
-            above_base = _above_base(node, r_sp + r_base, source)
+            above_base = _above_base(node, r_sp + r_base, source, r_sp_centre + r_base)
             q = np.maximum(t_limit - t_in, 0.0) / (conv.sink_resistance + above_base)
         previous, base_excess = base_excess, q * conv.sink_resistance
         if np.all(np.abs(base_excess - previous) <= FILM_TOLERANCE):
@@ -887,6 +904,7 @@ def _solve_forced(
         air=air,
         source=source,
         spreading=r_sp,
+        spreading_centre=r_sp_centre,
         base_conduction=r_base,
         sink_resistance=conv.sink_resistance,
         mass_flow=mass_flow,
@@ -1056,7 +1074,12 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
             material.thermal_conductivity,
             sink_resistance,
         )
-        return _above_base(node, spread.average + spread.one_dimensional, source)
+        return _above_base(
+            node,
+            spread.average + spread.one_dimensional,
+            source,
+            spread.maximum + spread.one_dimensional,
+        )
 
     shape = np.broadcast_shapes(
         np.shape(t_in),
@@ -1119,6 +1142,7 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
         air=air,
         source=source,
         spreading=spread.average,
+        spreading_centre=spread.maximum,
         base_conduction=spread.one_dimensional,
         sink_resistance=r_sink,
         mass_flow=np.zeros_like(q),

@@ -438,7 +438,7 @@ def test_warnings_are_listed_and_escaped(results):
 def test_cautions_report_the_hottest_surface(results):
     result = results["fan-plate"]
     html = str(report.cautions(result))
-    hottest = f"{_celsius(result.solution.source_base_temperature):.1f}\u00a0°C"
+    hottest = f"{_celsius(result.solution.source_base_centre_temperature):.1f}\u00a0°C"
     assert hottest in html
     for topic in (
         "Fan failure",

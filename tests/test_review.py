@@ -318,7 +318,7 @@ def test_touch_check_is_judged_at_the_reference_not_at_the_case_inlet(fan_case, 
         sol = solve(
             inputs, air=replace(inputs.air, inlet_temperature=ref, surroundings_temperature=ref)
         )
-        assert a.surface_temperatures["base"] == float(sol.source_base_temperature)
+        assert a.surface_temperatures["base"] == float(sol.source_base_centre_temperature)
         assert a.surface_temperatures["fin_tips"] == float(sol.fin_tip_temperature)
         assert a.hottest_temperature == max(a.surface_temperatures.values())
 
@@ -371,7 +371,7 @@ def synthetic(inputs, factor_name, true_value, noise, seed):
         t = {
             "junction": sol.junction_temperature,
             "case": sol.case_temperature,
-            "base": sol.source_base_temperature,
+            "base": sol.source_base_centre_temperature,
             "fin_tip": sol.fin_tip_temperature,
         }[node]
         out.append(

@@ -335,3 +335,22 @@ def test_two_callables_for_an_extra_pressure_drop_give_two_airflows():
             float(solve_temperatures(*args, air, FanDriven(fan), None, options).volume_flow)
         )
     assert flows[1] < flows[0]
+
+
+@pytest.mark.parametrize("natural_flow", [False, True])
+def test_centre_of_the_base_is_hotter_than_the_footprint_mean_and_is_the_base_limit(natural_flow):
+    # Identity: the centre temperature uses the spreading resistance to the centre of the
+    # footprint (psi_max >= psi_avg, Song, Lee & Au 1994), so it is at least the mean; a limit
+    # on the base node is met exactly at the centre.
+    sink = PlateFinSink(0.08, 0.06, 0.005, 14, 0.0012, 0.03)
+    material = SinkMaterial(200.0, 0.85)
+    air = Air(inlet_temperature=323.15, pressure=101325.0)
+    flow = NaturalConvection() if natural_flow else GivenVelocity(2.0)
+    power = 10.0 if natural_flow else 40.0
+    source = HeatSource(power, 0.025, 0.025, 0.35, 0.03)
+    sol = solve_temperatures(sink, material, source, air, flow)
+    assert sol.source_base_centre_temperature > sol.source_base_temperature
+    assert sol.node_temperature("base") == sol.source_base_centre_temperature
+    limit = float(sol.source_base_centre_temperature) + 5.0
+    at_limit = solve_allowable_power(sink, material, source, air, flow, "base", limit)
+    assert float(at_limit.source_base_centre_temperature) == pytest.approx(limit, abs=1e-6)
