@@ -1211,6 +1211,7 @@ def _rescue_partial_notebook(task: Mapping[str, Any], what: str) -> str:
         folder = notes.case_folder(out_dir, variant)
         folder.mkdir(parents=True, exist_ok=True)
         notes.atomic_write(folder / notes.FAILED_IPYNB, nbformat.writes(nb))
+        notes.mark_stale(folder, message)
     for scratch in scratches:
         shutil.rmtree(scratch, ignore_errors=True)
     return message
@@ -1294,10 +1295,12 @@ def _install_files(folder: Path, files: Mapping[str, bytes], ok: bool) -> None:
             if name in files:
                 notes.atomic_write(folder / name, files[name])
         (folder / notes.FAILED_IPYNB).unlink(missing_ok=True)
+        notes.clear_stale(folder)
         if notes.NOTE_HTML in files:
             notes.atomic_write(folder / notes.NOTE_HTML, files[notes.NOTE_HTML])
     elif notes.FAILED_IPYNB in files:
         notes.atomic_write(folder / notes.FAILED_IPYNB, files[notes.FAILED_IPYNB])
+        notes.mark_stale(folder, "the note of this variant failed (see note.failed.ipynb)")
 
 
 def _run_on_cluster(
@@ -1361,14 +1364,31 @@ def _read_json(path: Path) -> dict | None:
     return data if isinstance(data, dict) else None
 
 
-def _reusable(folder: Path, key: str) -> dict | None:
-    """The results of an earlier note with the same key, if its files are all there."""
+def _reusable(folder: Path, key: str, inputs_sha256: str | None = None) -> dict | None:
+    """The results of an earlier note with the same key, if its files are all there.
+
+    The note on disk must itself be of these inputs (its results.json's ``inputs_sha256``),
+    not only the state file: two batches writing one folder, or a hand-copied note, must never
+    be reused for another variant.
+    """
     state = _read_json(folder / STATE_FILE)
     if not state or state.get("key") != key:
         return None
     if not all((folder / n).is_file() for n in (notes.NOTE_HTML, notes.NOTE_IPYNB)):
         return None
-    return _read_json(folder / notes.RESULTS_JSON)
+    results = _read_json(folder / notes.RESULTS_JSON)
+    if inputs_sha256 is not None and (results or {}).get("inputs_sha256") != inputs_sha256:
+        return None
+    return results
+
+
+def _inputs_hash(validated: Any) -> str | None:
+    from finkit.case import case_inputs_sha256
+
+    try:
+        return case_inputs_sha256(validated)
+    except (AttributeError, TypeError):  # a test stand-in without a validated case
+        return None
 
 
 def _status_from_results(results: Mapping[str, Any] | None) -> str:
@@ -1527,7 +1547,7 @@ def _run_batch_locked(
                 error=f"row {variant.row} (variant {variant.variant!r}): {exc}",
             )
             continue
-        reused = None if force else _reusable(folder, key)
+        reused = None if force else _reusable(folder, key, _inputs_hash(variant.validated))
         if reused is not None:
             outcomes[slot] = VariantOutcome(
                 variant=variant.variant,

@@ -958,10 +958,47 @@ def render_note(
         atomic_write(folder / RESULTS_JSON, results_text)
         atomic_write(folder / NOTE_IPYNB, notebook_text)
         (folder / FAILED_IPYNB).unlink(missing_ok=True)
+        clear_stale(folder)
         atomic_write(folder / NOTE_HTML, html)
     finally:
         shutil.rmtree(scratch, ignore_errors=True)
     return NoteOutput(folder, folder / NOTE_HTML, folder / NOTE_IPYNB, folder / RESULTS_JSON)
+
+
+STALE_MARKER = "STALE.txt"
+#: A note's outputs and the names they take when a later run of its case fails.
+_STALE_NAMES = {
+    "note.html": "note.stale.html",
+    "note.ipynb": "note.stale.ipynb",
+    "results.json": "results.stale.json",
+}
+
+
+def mark_stale(folder: Path, reason: str) -> list[str]:
+    """Rename a case folder's earlier note so that nobody signs it for the edited case.
+
+    The earlier note, notebook and results.json keep their content (nothing produced is lost)
+    under ``*.stale.*`` names, and ``STALE.txt`` says why. Returns the names renamed.
+    """
+    renamed = []
+    for name, stale in _STALE_NAMES.items():
+        if (folder / name).is_file():
+            os.replace(folder / name, folder / stale)
+            renamed.append(stale)
+    if renamed or (folder / STALE_MARKER).exists():
+        atomic_write(
+            folder / STALE_MARKER,
+            "The note in this folder (" + ", ".join(renamed or ["note.stale.html"]) + ") is from "
+            "an earlier run. The latest run of this case did not complete, so the note does not "
+            f"describe the current case file; do not sign it.\nLatest run: {reason}\n",
+        )
+    return renamed
+
+
+def clear_stale(folder: Path) -> None:
+    """Remove the stale copies once a new note of the case is complete."""
+    for stale in (*_STALE_NAMES.values(), STALE_MARKER):
+        (folder / stale).unlink(missing_ok=True)
 
 
 def _execution_failure(
@@ -1002,6 +1039,8 @@ def _execution_failure(
         nb.metadata["finkit"] = {"status": "failed", "error": message, "provenance": prov}
         folder.mkdir(exist_ok=True)
         atomic_write(folder / FAILED_IPYNB, nbformat.writes(nb))
+    if folder.is_dir():
+        mark_stale(folder, message)
     return message
 
 

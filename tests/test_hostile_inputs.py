@@ -144,3 +144,48 @@ def test_size_caps_are_named_in_the_error(tmp_path, old, new, message):
     (tmp_path / "case.yaml").write_text(text.replace(old, new, 1), encoding="utf-8")
     run = finkit("check", "case.yaml", cwd=tmp_path)
     assert run.returncode == 2 and message in run.stderr and "Traceback" not in run.stderr
+
+
+@pytest.mark.slow
+def test_a_note_on_disk_of_other_inputs_is_never_reused(tmp_path):
+    from finkit.batch import run_batch
+
+    base = ROOT / "demo_cases" / "nb300-pin-ducted.yaml"
+    table = [{"variant": "a", "source.power": "50 W"}]
+    out = tmp_path / "out"
+    assert [o.state for o in run_batch(base, table, out, jobs=1).outcomes] == ["computed"]
+    assert [o.state for o in run_batch(base, table, out, jobs=1).outcomes] == ["reused"]
+    # Another run's note lands in the folder (two batches, a hand copy): its inputs differ.
+    results = json.loads((out / "a" / "results.json").read_text(encoding="utf-8"))
+    results["inputs_sha256"] = "0" * 64
+    (out / "a" / "results.json").write_text(json.dumps(results), encoding="utf-8")
+    assert [o.state for o in run_batch(base, table, out, jobs=1).outcomes] == ["computed"]
+
+
+@pytest.mark.slow
+def test_a_failed_rerun_marks_the_earlier_note_stale(tmp_path):
+    from finkit.notes import render_note
+
+    case = (ROOT / "demo_cases" / "nb300-pin-ducted.yaml").read_text(encoding="utf-8")
+    path = tmp_path / "case.yaml"
+    path.write_text(case, encoding="utf-8")
+    out = tmp_path / "out"
+    first = render_note(path, out)
+    before = first.html.read_bytes()
+    # The case is edited so that its note fails (an unknown parameter reaches the template).
+    template = ROOT / "templates" / "heat_sink_note.ipynb"
+    broken = tmp_path / "broken.ipynb"
+    broken.write_text(
+        template.read_text(encoding="utf-8").replace(
+            '"report.verdict_page(result, note_time)"', '"report.no_such_section(result)"'
+        ),
+        encoding="utf-8",
+    )
+    with pytest.raises(Exception, match="failed at"):
+        render_note(path, out, template=broken)
+    folder = first.folder
+    assert not (folder / "note.html").exists()
+    assert (folder / "note.stale.html").read_bytes() == before
+    assert "do not sign it" in (folder / "STALE.txt").read_text(encoding="utf-8")
+    render_note(path, out)
+    assert (folder / "note.html").exists() and not (folder / "STALE.txt").exists()

@@ -459,9 +459,14 @@ def test_show_code_then_failure_keeps_the_good_note_then_success_clears_it(tmp_p
     assert "ValueError: fixture failure: fin_height must be positive" in message
     assert isinstance(info.value, FinkitError)
 
-    after = {name: (good.folder / name).read_bytes() for name in before}
-    assert after == before  # the previous good note, notebook and results are untouched
-    assert folder_listing(good.folder) == set(before) | {"note.failed.ipynb"}
+    # The previous good note is kept byte for byte but renamed, with a marker saying why: it
+    # does not describe the case as it now stands, so nobody may sign it by mistake.
+    stale = {"note.html": "note.stale.html", "note.ipynb": "note.stale.ipynb"}
+    stale["results.json"] = "results.stale.json"
+    after = {name: (good.folder / stale[name]).read_bytes() for name in before}
+    assert after == before
+    assert folder_listing(good.folder) == set(stale.values()) | {"note.failed.ipynb", "STALE.txt"}
+    assert "do not sign it" in (good.folder / "STALE.txt").read_text(encoding="utf-8")
     assert folder_listing(tmp_path) == {"fixture-1"}
     failed = nbformat.read(good.folder / "note.failed.ipynb", as_version=4)
     assert failed.metadata["finkit"]["status"] == "failed"
