@@ -1629,7 +1629,48 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
             )
     # 5. fin gaps and fins that cannot be made (forced and natural convection)
     flags += _manufacturing_flags(case)
+    # 6. magnitudes outside air cooling of electronics: typed with a unit, but likely a slip
+    flags += _implausible_flags(case)
     return flags
+
+
+#: Ranges of air-cooled electronics heat sinks; a value outside is flagged, not refused
+#: (common practice, no source).
+PLAUSIBLE = {
+    "approach_velocity": (0.0, 20.0, "m/s", "air.flow.approach_velocity"),
+    "fin_height": (0.0, 0.3, "m", "sink.fins.height"),
+    "base_length": (0.0, 1.0, "m", "sink.base.length"),
+    "base_width": (0.0, 1.0, "m", "sink.base.width"),
+    "limit_temperature": (0.0, 250.0 + ZERO_CELSIUS, "K", "limit.temperature"),
+    "thermal_conductivity": (0.0, 2000.0, "W/(m K)", "the sink material's conductivity"),
+}
+
+
+def _implausible_flags(case) -> list[str]:
+    """Typed values far outside air cooling of electronics (a slip of unit or of digits)."""
+    from finkit.model import sink_inputs
+
+    inputs = sink_inputs(case)
+    values = {
+        "approach_velocity": getattr(case.air.flow, "approach_velocity", None),
+        "fin_height": getattr(getattr(case.sink, "fins", None), "height", None),
+        "base_length": case.sink.base.length,
+        "base_width": case.sink.base.width,
+        "limit_temperature": case.limit.temperature,
+        "thermal_conductivity": float(np.max(inputs.material.thermal_conductivity)),
+    }
+    out = []
+    for name, value in values.items():
+        low, high, unit, field_name = PLAUSIBLE[name]
+        if value is not None and not low < value <= high:
+            shown = value - ZERO_CELSIUS if unit == "K" else value
+            shown_unit = "degC" if unit == "K" else unit
+            limit = high - ZERO_CELSIUS if unit == "K" else high
+            out.append(
+                f"{field_name}: {shown:.4g} {shown_unit} is outside what air-cooled electronics "
+                f"use (up to about {limit:g} {shown_unit}); check the value and its unit"
+            )
+    return out
 
 
 def _manufacturing_flags(case) -> list[str]:

@@ -711,6 +711,13 @@ def _forced_convection(
     effectiveness = -np.expm1(-ntu)
     r_sink = np.where(inlet_referenced, 1.0 / conductance, 1.0 / (effectiveness * capacity))
     # An inlet-referenced model can never beat the fully heated limit m cp (guard of e2).
+    clamped = r_sink < 1.0 / capacity
+    if np.any(clamped):
+        warnings.append(
+            "sink resistance: the correlation gave less than the air-heating limit 1/(m_dot c_p) "
+            f"= {float(np.max(1.0 / capacity)):.3g} K/W, so the limit is used (the air leaves "
+            "at the base temperature; the correlation is outside what it can describe here)"
+        )
     r_sink = np.maximum(r_sink, 1.0 / capacity) * options.sink_resistance_factor
     tip_ratio = 1.0 / np.cosh(mL)
     return _Convection(

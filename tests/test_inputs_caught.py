@@ -82,6 +82,7 @@ def test_the_demo_cases_raise_no_manufacturing_flag(path):
         data.pop(key, None)
     warnings = run_case(load_case(data)).warnings
     assert not [w for w in warnings if "manufacturing minimum" in w or "narrower than" in w]
+    assert not [w for w in warnings if "outside what air-cooled electronics use" in w]
 
 
 def test_a_property_failure_from_too_many_fins_names_the_fin_gap():
@@ -89,3 +90,32 @@ def test_a_property_failure_from_too_many_fins_names_the_fin_gap():
     data["sink"]["fins"]["count"] = 60
     with pytest.raises(PropertyRangeError, match=r"^sink.fins: fin gap 0.14 mm is too small"):
         run_case(load_case(data))
+
+
+@pytest.mark.parametrize(
+    ("path", "value", "message"),
+    [
+        (("sink", "fins", "height"), "2 m", "sink.fins.height: 2 m is outside"),
+        (("limit", "temperature"), "3000 degC", "limit.temperature: 3000 degC is outside"),
+    ],
+)
+def test_absurd_magnitudes_typed_with_a_unit_are_flagged(path, value, message):
+    data = lean("nb100-natural")
+    data.pop("scenarios", None)
+    node = data
+    for key in path[:-1]:
+        node = node[key]
+    node[path[-1]] = value
+    from finkit.review import sanity_flags
+
+    case = load_case(data)
+    assert any(f.startswith(message) for f in sanity_flags(case))
+
+
+def test_an_approach_velocity_of_300_m_s_is_flagged():
+    from finkit.review import sanity_flags
+
+    data = lean("nb300-pin-ducted")
+    data["air"]["flow"] = {"approach_velocity": "300 m/s"}
+    flags = sanity_flags(load_case(data))
+    assert any(f.startswith("air.flow.approach_velocity: 300 m/s is outside") for f in flags)

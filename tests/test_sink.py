@@ -354,3 +354,18 @@ def test_centre_of_the_base_is_hotter_than_the_footprint_mean_and_is_the_base_li
     limit = float(sol.source_base_centre_temperature) + 5.0
     at_limit = solve_allowable_power(sink, material, source, air, flow, "base", limit)
     assert float(at_limit.source_base_centre_temperature) == pytest.approx(limit, abs=1e-6)
+
+
+def test_the_air_heating_limit_says_when_it_acts():
+    # Identity: the sink resistance can never be below 1/(m_dot c_p) (all the air leaving at
+    # the base temperature); when the correlation would go below, the limit is used and said.
+    from finkit.sink import ModelOptions
+
+    sink = PlateFinSink(0.08, 0.06, 0.005, 14, 0.0012, 0.03)
+    args = (sink, SinkMaterial(200.0, 0.85), HeatSource(2.0, 0.025, 0.025, 0.35, 0.03))
+    air = Air(inlet_temperature=298.15, pressure=101325.0)
+    options = ModelOptions(heat_transfer_coefficient_override=200.0)
+    sol = solve_temperatures(*args, air, GivenVolumeFlow(2e-5), None, options)
+    assert any(w.startswith("sink resistance: the correlation gave less") for w in sol.warnings)
+    normal = solve_temperatures(*args, air, GivenVolumeFlow(5e-3))
+    assert not any(w.startswith("sink resistance:") for w in normal.warnings)
