@@ -650,6 +650,10 @@ def prepare_variants(
         validated = None
         if merged is not None:
             merged["case_id"] = row.variant
+            if not any(str(k).startswith("previous_revision") for k in row.overrides):
+                # The base's previous revision is the base's, not a variant's: a variant note
+                # compares with a previous revision only when its row names one.
+                merged.pop("previous_revision", None)
             try:
                 validated = load_case(merged)
                 merged = notes._json_safe(validated.entered, "case")
