@@ -1431,7 +1431,8 @@ def assumptions(result) -> present.Fragment:
         "The source is centred on the base and heats its footprint uniformly. The case and "
         "junction sit on the base temperature averaged over the footprint; the centre of the "
         "footprint, the hottest point of the base, is reported too and is the base limit node "
-        "and the base touch temperature (spreading resistance to the centre from the exact rectangular series).",
+        "and the base touch temperature (spreading resistance to the centre from the exact "
+        "rectangular series).",
         "Fins are one-dimensional (temperature uniform across the fin thickness or pin "
         "section), with a uniform heat transfer coefficient over their surface, a constant "
         "conductivity, and an isothermal base at the mean base temperature (fin-efficiency "
