@@ -1103,6 +1103,9 @@ _REFS = {
     "song_lee_au": "Song, S., Lee, S., Au, V., Closed-form equation for thermal constriction/"
     "spreading resistances with variable resistance boundary condition, Proc. IEPS Conference, "
     "1994, pp. 111-121.",
+    "yovanovich_series": "Yovanovich, M.M., Muzychka, Y.S., Culham, J.R., Spreading resistance "
+    "of isoflux rectangles and strips on compound flux channels, J. Thermophys. Heat Transfer "
+    "13(4), 495-500, 1999.",
     "atmosphere": "U.S. Standard Atmosphere, 1976, NOAA/NASA/USAF, Washington DC, 1976; "
     "ISO 2533:1975 Standard Atmosphere.",
     "coolprop": "Bell, I.H., Wronski, J., Quoilin, S., Lemort, V., Pure and pseudo-pure fluid "
@@ -1134,7 +1137,7 @@ def _reference_keys(result) -> list[str]:
         keys += ["zukauskas", "gaddis", "kays_london", "incropera"]
     if not _is_natural(result) and result.inputs.bypass is not None:
         keys.append("bypass")
-    keys += ["song_lee_au", "atmosphere", "coolprop"]
+    keys += ["yovanovich_series", "atmosphere", "coolprop"]
     return list(dict.fromkeys(keys))
 
 
@@ -1376,19 +1379,25 @@ def method_section(result) -> present.Fragment:
     parts += [
         present.heading("Spreading and base conduction", 3),
         present.text(
-            "The source is centred on the base. Spreading from its footprint into the base, with "
-            "the sink resistance as the boundary condition on the finned face, follows the "
-            f"closed form of Song, Lee & Au {cite('song_lee_au')} (average source "
-            "temperature), with equivalent radii a (source) and b (base):"
+            "The source is centred on the base. Spreading from its footprint (2a x 2b) into "
+            "the base (2c x 2d), with the sink resistance as a uniform coefficient "
+            "h = 1/(R_sink A_base) on the finned face, follows the exact series for an isoflux "
+            f"rectangle on a rectangular plate {cite('yovanovich_series')}, summed to 4 terms "
+            "per plate-to-source edge ratio (within 0.5 % of the converged series). It gives "
+            "both the footprint mean (R_sp, used for the case and junction) and the footprint "
+            "centre, the hottest point of the base (the base limit node and touch check):"
         ),
         present.equation(
-            r"R_{sp} = \dfrac{\psi_{avg}}{\sqrt{\pi}\,k\,a},\quad \psi_{avg} = \dfrac{1}{2}"
-            r"(1-\epsilon)^{3/2}\,\dfrac{\tanh(\lambda_c \tau)+\lambda_c/Bi}{1+(\lambda_c/Bi)"
-            r"\tanh(\lambda_c \tau)}"
+            r"R_{sp} = \dfrac{1}{2a^2cdk}\sum_m \dfrac{\sin^2(a\delta_m)\,\phi(\delta_m)}"
+            r"{\delta_m^3} + \dfrac{1}{2b^2cdk}\sum_n \dfrac{\sin^2(b\lambda_n)\,"
+            r"\phi(\lambda_n)}{\lambda_n^3} + \dfrac{1}{a^2b^2cdk}\sum_m\sum_n "
+            r"\dfrac{\sin^2(a\delta_m)\sin^2(b\lambda_n)\,\phi(\beta_{mn})}"
+            r"{\delta_m^2\lambda_n^2\beta_{mn}}"
         ),
         present.equation(
-            r"\epsilon = \dfrac{a}{b},\quad \tau = \dfrac{t_b}{b},\quad \lambda_c = \pi + "
-            r"\dfrac{1}{\epsilon\sqrt{\pi}},\quad Bi = \dfrac{b}{k\,R_{sink}\,A_{base}}"
+            r"\delta_m = \dfrac{m\pi}{c},\quad \lambda_n = \dfrac{n\pi}{d},\quad "
+            r"\beta_{mn} = \sqrt{\delta_m^2+\lambda_n^2},\quad \phi(z) = "
+            r"\dfrac{z + (h/k)\tanh(z t_b)}{z\tanh(z t_b) + h/k}"
         ),
         present.text(
             "The one-dimensional base resistance is t_b/(k A_base); the interface resistance is "
@@ -1422,7 +1431,8 @@ def assumptions(result) -> present.Fragment:
         "The source is centred on the base and heats its footprint uniformly. The case and "
         "junction sit on the base temperature averaged over the footprint; the centre of the "
         "footprint, the hottest point of the base, is reported too and is the base limit node "
-        "and the base touch temperature (spreading resistance to the centre, Song, Lee & Au).",
+        "and the base touch temperature (spreading resistance to the centre from the exact "
+        "rectangular series).",
         "Fins are one-dimensional (temperature uniform across the fin thickness or pin "
         "section), with a uniform heat transfer coefficient over their surface, a constant "
         "conductivity, and an isothermal base at the mean base temperature (fin-efficiency "

@@ -18,6 +18,7 @@ from __future__ import annotations
 from typing import NamedTuple
 
 import numpy as np
+from scipy.interpolate import CubicSpline
 
 from finkit.errors import GeometryError, InputError
 
@@ -166,7 +167,7 @@ def spreading_resistance_rectangular_series(
     plate_thickness,
     thermal_conductivity,
     heat_transfer_coefficient,
-    terms=200,
+    terms=None,
 ):
     r"""Spreading resistance of a centred rectangular source on a cooled plate, exact series.
 
@@ -187,8 +188,13 @@ def spreading_resistance_rectangular_series(
     heat_transfer_coefficient : float or array_like
         Uniform coefficient on the cooled face, h (use ``1/(R_0 A_plate)`` for a sink resistance
         ``R_0``) [W m⁻² K⁻¹].
-    terms : int
+    terms : int or None
         Number of terms per series index (M = N); the double sum has ``terms**2`` terms [-].
+        None (default) chooses them per design from the plate-to-source ratio:
+        ``M = 4 (2c)/(2a)`` and ``N = 4 (2d)/(2b)`` for the double sum (at least 24, at most
+        :data:`SERIES_MAX_TERMS`) and 4 times more for the single sums, which truncates the
+        mean within -0.2 % and the centre within -0.5 % of the converged series (measured
+        against 2000 x 2000 terms for sources of 1-30 % of the plate edge, in the tests).
 
     Returns
     -------
@@ -250,12 +256,103 @@ def spreading_resistance_rectangular_series(
     h = _positive("heat_transfer_coefficient", heat_transfer_coefficient, "W m⁻² K⁻¹")
     if np.any(a > c * (1.0 + 1e-12)) or np.any(b > d * (1.0 + 1e-12)):
         raise GeometryError("source does not fit on the plate: source edges must be ≤ plate edges")
-    if int(terms) < 1:
+    if terms is not None and int(terms) < 1:
         raise InputError(f"terms = {terms} is not allowed; must be ≥ 1")
 
-    a, b, c, d, t, k, h = np.broadcast_arrays(a, b, c, d, t, k, h)
+    a, b, c, d, t, k, h = (np.array(v, float) for v in np.broadcast_arrays(a, b, c, d, t, k, h))
     shape = a.shape
-    idx = np.arange(1, int(terms) + 1, dtype=float)
+    a, b, c, d, t, k, h = (v.ravel() for v in (a, b, c, d, t, k, h))
+    if terms is None:
+        m_count = np.clip(np.ceil(SERIES_TERMS_PER_RATIO * c / a), 24, SERIES_MAX_TERMS)
+        n_count = np.clip(np.ceil(SERIES_TERMS_PER_RATIO * d / b), 24, SERIES_MAX_TERMS)
+    else:
+        m_count = np.full(a.shape, int(terms), float)
+        n_count = m_count
+    single = np.maximum(m_count, n_count) * (4 if terms is None else 1)
+    avg, mx = np.empty(a.shape), np.empty(a.shape)
+    direct = np.ones(a.shape, bool)
+    if terms is None and a.size > _INTERPOLATION_NODES * 8:
+        # Many designs on few geometries (a Monte Carlo on conductivity and sink resistance):
+        # R = F(h/k)/k with F smooth in log(h/k), so F is summed at a few nodes per geometry
+        # and interpolated (cubic spline in log(h/k); within 1e-6 of the direct sum, tested).
+        geometry = np.stack([a, b, c, d, t], axis=1)
+        unique, inverse = np.unique(geometry, axis=0, return_inverse=True)
+        inverse = inverse.ravel()
+        for g in range(unique.shape[0]):
+            members = np.flatnonzero(inverse == g)
+            if members.size <= _INTERPOLATION_NODES * 8:
+                continue
+            hk = h[members] / k[members]
+            lo, hi = np.log(np.min(hk)), np.log(np.max(hk))
+            nodes = np.exp(np.linspace(lo, hi + 1e-9 * (1 + abs(hi)), _INTERPOLATION_NODES))
+            one = np.ones_like(nodes)
+            ga, gb, gc, gd, gt = (np.full_like(nodes, v) for v in unique[g])
+            first = members[0]
+            f_avg, f_max = _chunked_sums(
+                ga, gb, gc, gd, gt, one, nodes,
+                m_count[first] * one, n_count[first] * one, single[first] * one,
+            )  # fmt: skip
+            x = np.log(hk)
+            avg[members] = CubicSpline(np.log(nodes), f_avg)(x) / k[members]
+            mx[members] = CubicSpline(np.log(nodes), f_max)(x) / k[members]
+            direct[members] = False
+    sel = np.flatnonzero(direct)
+    if sel.size:
+        avg[sel], mx[sel] = _chunked_sums(
+            a[sel], b[sel], c[sel], d[sel], t[sel], k[sel], h[sel],
+            m_count[sel], n_count[sel], single[sel],
+        )  # fmt: skip
+    root_source = np.sqrt(4.0 * a * b)
+    cdk = c * d * k
+    return SpreadingResistance(
+        average=avg.reshape(shape),
+        maximum=mx.reshape(shape),
+        one_dimensional=(t / (4.0 * cdk)).reshape(shape),
+        psi_average=(avg * k * root_source).reshape(shape),
+        psi_maximum=(mx * k * root_source).reshape(shape),
+    )
+
+
+SERIES_TERMS_PER_RATIO = 4.0
+"""Double-sum terms per plate-to-source edge ratio when the series chooses its own length [-]."""
+
+SERIES_MAX_TERMS = 1000
+"""Most double-sum terms per index when the series chooses its own length [-] (reached only by
+sources smaller than 1/250 of the plate edge)."""
+
+_SERIES_CHUNK_ELEMENTS = 2_000_000
+_INTERPOLATION_NODES = 48
+
+
+def _chunked_sums(a, b, c, d, t, k, h, m_count, n_count, single):
+    """:func:`_rectangular_series_sums` over designs in chunks of similar series length, so
+    memory stays bounded for many designs."""
+    avg, mx = np.empty(a.shape), np.empty(a.shape)
+    order = np.argsort(m_count * n_count, kind="stable")
+    start = 0
+    while start < order.size:
+        size = m_count[order[start]] * n_count[order[start]]
+        stop = start + 1
+        while stop < order.size:
+            size = max(size, m_count[order[stop]] * n_count[order[stop]])
+            if (stop + 1 - start) * size > _SERIES_CHUNK_ELEMENTS:
+                break
+            stop += 1
+        sel = order[start:stop]
+        avg[sel], mx[sel] = _rectangular_series_sums(
+            a[sel], b[sel], c[sel], d[sel], t[sel], k[sel], h[sel],
+            m_count[sel], n_count[sel], single[sel],
+        )  # fmt: skip
+        start = stop
+    return avg, mx
+
+
+def _rectangular_series_sums(a, b, c, d, t, k, h, m_count, n_count, single_count):
+    """Mean and centre spreading resistance of 1-D design arrays (half-widths) [K W⁻¹].
+
+    Each design keeps its own number of terms (the arrays are padded to the largest and the
+    extra terms masked), so a design gives the same value alone or among others.
+    """
 
     def col(x):  # parameters on a trailing axis for the single sums
         return x[..., None]
@@ -265,42 +362,35 @@ def spreading_resistance_rectangular_series(
         return (z + Bi_ * th) / (z * th + Bi_)
 
     hk = h / k
-    delta = idx * np.pi / col(c)  # (..., M)
-    lam = idx * np.pi / col(d)  # (..., N)
-    sa = np.sin(col(a) * delta)
-    sb = np.sin(col(b) * lam)
+    cdk = c * d * k
+    idx = np.arange(1, int(np.max(single_count)) + 1, dtype=float)
+    delta = idx * np.pi / col(c)
+    lam = idx * np.pi / col(d)
+    kept = idx <= col(single_count)
+    sa = np.sin(col(a) * delta) * kept
+    sb = np.sin(col(b) * lam) * kept
     phi_d = phi(delta, col(t), col(hk))
     phi_l = phi(lam, col(t), col(hk))
+    avg = np.sum(sa**2 * phi_d / delta**3, axis=-1) / (2.0 * a**2 * cdk) + np.sum(
+        sb**2 * phi_l / lam**3, axis=-1
+    ) / (2.0 * b**2 * cdk)
+    mx = np.sum(sa * phi_d / delta**2, axis=-1) / (2.0 * a * cdk) + np.sum(
+        sb * phi_l / lam**2, axis=-1
+    ) / (2.0 * b * cdk)
 
-    beta = np.sqrt(delta[..., :, None] ** 2 + lam[..., None, :] ** 2)  # (..., M, N)
-    phi_b = phi(beta, t[..., None, None], hk[..., None, None])
-    sa2 = sa[..., :, None]
-    sb2 = sb[..., None, :]
-    dd = delta[..., :, None]
-    ll = lam[..., None, :]
-
-    cdk = c * d * k
-    avg = (
-        np.sum(sa**2 * phi_d / delta**3, axis=-1) / (2.0 * a**2 * cdk)
-        + np.sum(sb**2 * phi_l / lam**3, axis=-1) / (2.0 * b**2 * cdk)
-        + np.sum(sa2**2 * sb2**2 * phi_b / (dd**2 * ll**2 * beta), axis=(-2, -1))
-        / (a**2 * b**2 * cdk)
+    m_idx = np.arange(1, int(np.max(m_count)) + 1, dtype=float)
+    n_idx = np.arange(1, int(np.max(n_count)) + 1, dtype=float)
+    dd = (m_idx * np.pi / col(c))[..., :, None]  # (D, M, 1)
+    ll = (n_idx * np.pi / col(d))[..., None, :]  # (D, 1, N)
+    beta = np.sqrt(dd**2 + ll**2)
+    phi_b = phi(beta, t[:, None, None], hk[:, None, None])
+    sa2 = np.sin(a[:, None, None] * dd) * (m_idx <= col(m_count))[..., :, None]
+    sb2 = np.sin(b[:, None, None] * ll) * (n_idx <= col(n_count))[..., None, :]
+    avg = avg + np.sum(sa2**2 * sb2**2 * phi_b / (dd**2 * ll**2 * beta), axis=(-2, -1)) / (
+        a**2 * b**2 * cdk
     )
-    mx = (
-        np.sum(sa * phi_d / delta**2, axis=-1) / (2.0 * a * cdk)
-        + np.sum(sb * phi_l / lam**2, axis=-1) / (2.0 * b * cdk)
-        + np.sum(sa2 * sb2 * phi_b / (dd * ll * beta), axis=(-2, -1)) / (a * b * cdk)
-    )
-    root_source = np.sqrt(4.0 * a * b)
-    avg = avg.reshape(shape)
-    mx = mx.reshape(shape)
-    return SpreadingResistance(
-        average=avg,
-        maximum=mx,
-        one_dimensional=t / (4.0 * cdk),
-        psi_average=avg * k * root_source,
-        psi_maximum=mx * k * root_source,
-    )
+    mx = mx + np.sum(sa2 * sb2 * phi_b / (dd * ll * beta), axis=(-2, -1)) / (a * b * cdk)
+    return avg, mx
 
 
 def interface_resistance(

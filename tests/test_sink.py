@@ -25,7 +25,7 @@ from finkit.sink import (
     solve_allowable_power,
     solve_temperatures,
 )
-from finkit.spreading import spreading_resistance_song_lee_au
+from finkit.spreading import spreading_resistance_rectangular_series
 
 PLATE = PlateFinSink(
     base_width=0.08,
@@ -168,11 +168,15 @@ def test_chain_is_the_sum_of_its_resistances():
     sol = solve_temperatures(PLATE, ALUMINIUM, SOURCE, AIR, GivenVolumeFlow(12 * CFM))
     rise = sol.junction_temperature - sol.inlet_air_temperature
     assert rise == pytest.approx(SOURCE.power * sol.total_resistance, rel=1e-9)
-    # Spreading is the Song-Lee-Au value for the sink resistance found (methods.md i1).
-    spread = spreading_resistance_song_lee_au(
-        SOURCE.footprint_area, 0.08 * 0.06, 0.005, 200.0, sol.sink_resistance
+    # Spreading is the exact rectangular series for the sink resistance found, as a uniform
+    # coefficient 1/(R_sink A_base) on the finned face (methods.md i2).
+    spread = spreading_resistance_rectangular_series(
+        0.025, 0.025, 0.06, 0.08, 0.005, 200.0, 1.0 / (sol.sink_resistance * 0.08 * 0.06)
     )
     assert sol.spreading_resistance == pytest.approx(spread.average, rel=1e-12)
+    assert sol.source_base_centre_temperature - sol.base_temperature == pytest.approx(
+        SOURCE.power * (spread.maximum + spread.one_dimensional), rel=1e-9
+    )
 
 
 @pytest.mark.identity

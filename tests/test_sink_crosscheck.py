@@ -177,11 +177,14 @@ THERMAL_FIELDS = {
 def test_thermal_chain_matches_reference(field, reference_given_flow, finkit_given_flow):
     # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
     # Same equations on both sides (Teertstra et al. 1999 h at film properties, tanh(mH)/(mH),
-    # eta_o, Song, Lee & Au average spreading with R_0 = R_sink, t_b/(k W L)); the only
-    # difference is finkit's fixed film-temperature iteration count versus brentq here, worth
-    # < 1e-5 relative in these designs.
+    # eta_o, exact rectangular spreading series with h = 1/(R_sink A_base), t_b/(k W L)); the
+    # differences are finkit's fixed film-temperature iteration count versus brentq here, worth
+    # < 1e-5 relative in these designs, and the series length: finkit truncates the series to
+    # 4 terms per plate-to-source ratio (documented as <= 0.2 % low on the mean), the reference
+    # sums 600 x 600 terms, so the spreading resistance is held to 3e-3.
     expected = np.array([getattr(r, THERMAL_FIELDS[field]) for r in reference_given_flow])
-    np.testing.assert_allclose(getattr(finkit_given_flow, field), expected, rtol=1e-4)
+    rtol = 3e-3 if field == "spreading_resistance" else 1e-4
+    np.testing.assert_allclose(getattr(finkit_given_flow, field), expected, rtol=rtol)
 
 
 @pytest.mark.identity
@@ -193,7 +196,9 @@ def test_junction_and_base_temperature_rise_match_reference(
     # term, methods.md e2/j); compared as rises over the inlet so the tolerance means something.
     junction = np.array([r.junction_temperature for r in reference_given_flow]) - INLET
     base = np.array([r.base_temperature for r in reference_given_flow]) - INLET
-    np.testing.assert_allclose(finkit_given_flow.junction_temperature - INLET, junction, rtol=1e-4)
+    # Junction and allowable power to 1e-3: finkit's truncated spreading series (<= 0.2 % low
+    # on R_sp, a fraction of the chain) against the reference's 600 x 600 terms.
+    np.testing.assert_allclose(finkit_given_flow.junction_temperature - INLET, junction, rtol=1e-3)
     np.testing.assert_allclose(finkit_given_flow.base_temperature - INLET, base, rtol=1e-4)
 
 
@@ -277,7 +282,9 @@ def test_fan_operating_point_matches_reference():
         ref.solve_given_flow(d, q_fan, p, t, pa, "kays_london", "jet_only").junction_temperature - t
         for d, _, p, t, q_fan, pa in CASES
     ]
-    np.testing.assert_allclose(sol.junction_temperature - INLET, fan_rise, rtol=1e-4)
+    # Junction and allowable power to 1e-3: finkit's truncated spreading series (<= 0.2 % low
+    # on R_sp, a fraction of the chain) against the reference's 600 x 600 terms.
+    np.testing.assert_allclose(sol.junction_temperature - INLET, fan_rise, rtol=1e-3)
 
 
 @pytest.mark.identity
@@ -290,7 +297,9 @@ def test_allowable_power_matches_reference(node):
     limit = ZERO_CELSIUS + 95.0
     sol = solve_allowable_power(GEOMETRY, MATERIAL, SOURCE, AIR, GivenVolumeFlow(FLOW), node, limit)
     expected = [ref.allowable_power(d, q, limit, t, pa, node=node) for d, q, _, t, _, pa in CASES]
-    np.testing.assert_allclose(sol.power, expected, rtol=1e-4)
+    # Junction and allowable power to 1e-3: finkit's truncated spreading series (<= 0.2 % low
+    # on R_sp, a fraction of the chain) against the reference's 600 x 600 terms.
+    np.testing.assert_allclose(sol.power, expected, rtol=1e-3)
     reached = sol.junction_temperature if node == "junction" else sol.case_temperature
     np.testing.assert_allclose(reached, limit, atol=1e-3)
 
