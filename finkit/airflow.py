@@ -1096,13 +1096,46 @@ def split_bypass(
     )
 
 
-def _bypass_newton(fan, pressure_ratio, dp_sink, dp_bypass, extra, maxiter=40):
-    """Damped Newton on (sink flow a, bypass flow b) for a fan with bypass; see the caller.
+def parallel_pressure_drop(branches) -> SystemPressureDrop:
+    """``dp(q)`` of several parallel branches carrying a total flow q between them [Pa].
 
-    Residuals: ``r1 = dp_sink(a) - dp_bypass(b)`` and ``r2 = fan(a + b) - dp_sink(a) -
-    extra(a + b)`` (fan scaled by ``pressure_ratio``). Returns ``(a, b, converged)``; elements
-    that leave the feasible box or do not meet the tolerance are flagged unconverged.
+    Parameters
+    ----------
+    branches : callable or sequence of callable
+        ``dp(volume_flow)`` of each branch (e.g. the side gaps and the top gap of a bypass).
+
+    Returns
+    -------
+    callable
+        The branch itself for one branch; otherwise a function that splits q at equal pressure
+        drop with :func:`split_bypass` (the first branch against the rest, recursively) and
+        returns the common pressure drop.
     """
+    if callable(branches):
+        return branches
+    branches = tuple(branches)
+    if len(branches) == 1:
+        return branches[0]
+    first, rest = branches[0], parallel_pressure_drop(branches[1:])
+
+    def dp(q):
+        return split_bypass(q, first, rest).pressure_drop
+
+    return dp
+
+
+def _bypass_newton(fan, pressure_ratio, dp_sink, dp_bypass, extra, maxiter=40):
+    """Damped Newton on the sink flow a and the bypass branch flows b_k for a fan with bypass.
+
+    Residuals: ``r_k = dp_sink(a) - dp_k(b_k)`` for each bypass branch and ``r_f = fan(a + sum
+    b) - dp_sink(a) - extra(a + sum b)`` (fan scaled by ``pressure_ratio``). The Jacobian is an
+    arrow matrix, eliminated in closed form: ``da = -(r_f + s_q sum r_k/s_k) / (s_q - s_a +
+    s_q s_a sum 1/s_k)``, ``db_k = (r_k + s_a da)/s_k``. A branch that is closed for a design
+    (infinite pressure drop at a small flow) carries no flow there and has no equation.
+    Returns ``(a, b_total, converged)``; elements that leave the feasible box or do not meet the
+    tolerance are flagged unconverged.
+    """
+    branches = (dp_bypass,) if callable(dp_bypass) else tuple(dp_bypass)
     q_free = fan.free_delivery
     q_max = q_free * (1.0 - 1e-9)
     step = 1e-7 * q_free
@@ -1114,43 +1147,61 @@ def _bypass_newton(fan, pressure_ratio, dp_sink, dp_bypass, extra, maxiter=40):
             value = value - np.asarray(extra(q), float)
         return value
 
+    shape = np.shape(np.asarray(dp_sink(np.float64(0.5 * q_free)), float) * pressure_ratio)
+    with np.errstate(invalid="ignore", over="ignore"):
+        probe = np.full(shape, 1e-6 * q_free)
+        is_open = [
+            np.isfinite(np.asarray(f(probe), float)) & np.ones(shape, bool) for f in branches
+        ]
+    count = max(len(branches), 1)
+    a = np.full(shape, 0.6 * q_free)
+    b = [np.where(o, 0.1 * q_free / count, 0.0) for o in is_open]
+
     def residuals(a, b):
         fa = np.asarray(dp_sink(a), float)
-        fb = np.asarray(dp_bypass(b), float)
-        return fa, fb, fa - fb, fan_side(a + b) - fa
+        fb = [
+            np.where(o, np.asarray(f(x), float), fa)
+            for f, x, o in zip(branches, b, is_open, strict=True)
+        ]
+        return fa, fb, [fa - x for x in fb], fan_side(a + sum(b)) - fa
 
-    shape = np.shape(np.asarray(dp_sink(np.float64(0.5 * q_free)), float) * pressure_ratio)
-    a = np.full(shape, 0.6 * q_free)
-    b = np.full(shape, 0.1 * q_free)
     converged = np.zeros(shape, bool)
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        fa, fb, r1, r2 = residuals(a, b)
+        fa, fb, r, r_fan = residuals(a, b)
         for _ in range(maxiter):
-            q = a + b
+            q = a + sum(b)
             sa = (np.asarray(dp_sink(a + step), float) - fa) / step
-            sb = (np.asarray(dp_bypass(b + step), float) - fb) / step
+            slopes = [
+                np.where(o, (np.asarray(f(x + step), float) - y) / step, np.inf)
+                for f, x, y, o in zip(branches, b, fb, is_open, strict=True)
+            ]
             sq = (fan_side(q) - fan_side(q - step)) / step
-            det = sa * sq + sb * (sq - sa)
-            da = (-r1 * sq - sb * r2) / det
-            db = (-sa * r2 + (sq - sa) * r1) / det
-            # damping: stay inside 0 < a, 0 <= b, a + b < free delivery
+            inv = [np.where(o, 1.0 / s, 0.0) for s, o in zip(slopes, is_open, strict=True)]
+            sum_r = sum(np.where(o, rk * i, 0.0) for rk, i, o in zip(r, inv, is_open, strict=True))
+            da = -(r_fan + sq * sum_r) / (sq - sa + sq * sa * sum(inv))
+            db = [
+                np.where(o, (rk + sa * da) * i, 0.0)
+                for rk, i, o in zip(r, inv, is_open, strict=True)
+            ]
+            # damping: stay inside 0 < a, 0 <= b_k, a + sum b < free delivery
             new_a = np.clip(a + da, 1e-3 * a, None)
-            new_b = np.clip(b + db, 0.0, None)
-            over = new_a + new_b > q_max
-            shrink = np.where(over, q_max / (new_a + new_b), 1.0)
-            new_a, new_b = new_a * shrink, new_b * shrink
-            moved = np.maximum(np.abs(new_a - a), np.abs(new_b - b))
+            new_b = [np.clip(x + d, 0.0, None) for x, d in zip(b, db, strict=True)]
+            total = new_a + sum(new_b)
+            shrink = np.where(total > q_max, q_max / total, 1.0)
+            new_a, new_b = new_a * shrink, [x * shrink for x in new_b]
+            moved = np.abs(new_a - a)
+            for x, y in zip(new_b, b, strict=True):
+                moved = np.maximum(moved, np.abs(x - y))
             a, b = new_a, new_b
-            fa, fb, r1, r2 = residuals(a, b)
-            converged = (
-                (np.abs(r1) <= 1e-9 * dp_scale)
-                & (np.abs(r2) <= 1e-9 * dp_scale)
-                & (moved <= 1e-10 * q_free)
-            )
-            if np.all(converged | ~np.isfinite(r1 + r2)):
+            fa, fb, r, r_fan = residuals(a, b)
+            ok = (np.abs(r_fan) <= 1e-9 * dp_scale) & (moved <= 1e-10 * q_free)
+            for rk in r:
+                ok &= np.abs(rk) <= 1e-9 * dp_scale
+            converged = ok
+            if np.all(converged | ~np.isfinite(r_fan + sum(r))):
                 break
-    converged &= np.isfinite(r1 + r2)
-    return a, b, converged
+    converged &= np.isfinite(r_fan + sum(r))
+    return a, sum(b), converged
 
 
 def split_bypass_at_approach_velocity(
@@ -1233,8 +1284,9 @@ def operating_point_with_bypass(
         The fan (or combination), rated at ``fan.rating_density``.
     sink_pressure_drop : callable
         ``dp(volume_flow)`` of the finned region [Pa].
-    bypass_pressure_drop : callable
-        ``dp(volume_flow)`` of the bypass gaps [Pa].
+    bypass_pressure_drop : callable or sequence of callable
+        ``dp(volume_flow)`` of the bypass gaps [Pa]; several for gaps in parallel (side and
+        top), which then share the bypass flow at equal pressure drop.
     extra_pressure_drop : callable, optional
         ``dp(volume_flow)`` of everything else in series with the duct (enclosure, filter,
         grilles) [Pa], at the total flow.
@@ -1266,6 +1318,8 @@ def operating_point_with_bypass(
     tolerance is solved by the nested bracketed method above, which is always the reference.
     """
     factor = np.asarray(pressure_factor, dtype=float)
+    branches = bypass_pressure_drop
+    bypass_pressure_drop = parallel_pressure_drop(branches)
 
     def sink_and_bypass(q):
         return split_bypass(q, sink_pressure_drop, bypass_pressure_drop, maxiter=maxiter)
@@ -1280,7 +1334,7 @@ def operating_point_with_bypass(
     fast = None
     if not fan.has_stall_region:
         fast = _bypass_newton(
-            fan, ratio * factor, sink_pressure_drop, bypass_pressure_drop, extra_pressure_drop
+            fan, ratio * factor, sink_pressure_drop, branches, extra_pressure_drop
         )
     if fast is not None and np.all(fast[2]):
         a, b, _ = fast

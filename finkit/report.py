@@ -1100,6 +1100,8 @@ _REFS = {
     "churchill_chu": "Churchill, S.W., Chu, H.H.S., Correlating equations for laminar and "
     "turbulent free convection from a vertical plate, Int. J. Heat Mass Transfer 18, "
     "1323-1329, 1975.",
+    "vdi_bank": "Gnielinski, V., Heat transfer in cross-flow around single rows of tubes and "
+    "through tube bundles, in VDI Heat Atlas, 2nd ed., Springer, 2010, ch. G7.",
     "song_lee_au": "Song, S., Lee, S., Au, V., Closed-form equation for thermal constriction/"
     "spreading resistances with variable resistance boundary condition, Proc. IEPS Conference, "
     "1994, pp. 111-121.",
@@ -1126,15 +1128,20 @@ def _reference_keys(result) -> list[str]:
         keys += ["bar_cohen" if method == "bar_cohen_rohsenow" else "elenbaas", "churchill_chu"]
         keys += ["incropera"]
     elif _is_plate(result):
-        if opts.plate_channel_method == "teertstra":
+        if opts.plate_channel_method in ("teertstra", "lower"):
             keys += ["teertstra"]
-        keys += ["vdi", "gnielinski", "shah_london", "muzychka"]
+        if opts.plate_channel_method in ("vdi", "lower"):
+            keys += ["vdi", "gnielinski"]
+        keys += ["shah_london", "muzychka"]
         keys += (
             ["kays_london", "rennels"] if opts.loss_model == "kays_london" else ["culham_muzychka"]
         )
         keys += ["incropera"]
     else:
-        keys += ["zukauskas", "gaddis", "kays_london", "incropera"]
+        method = getattr(opts, "pin_bank_method", "lower")
+        keys += ["zukauskas"] if method in ("zukauskas", "lower") else []
+        keys += ["vdi_bank"] if method in ("gnielinski", "lower") else []
+        keys += ["gaddis", "kays_london", "incropera"]
     if not _is_natural(result) and result.inputs.bypass is not None:
         keys.append("bypass")
     keys += ["yovanovich_series", "atmosphere", "coolprop"]
@@ -1243,37 +1250,51 @@ def method_section(result) -> present.Fragment:
     elif _is_plate(result):
         channel = opts.plate_channel_method
         parts.append(present.heading("Forced convection in the fin channels", 3))
-        if channel == "teertstra":
+        teertstra = [
+            present.text(
+                f"The laminar-developing model is the composite of Teertstra et al. "
+                f"{cite('teertstra')}, on the channel Reynolds number built on the fin "
+                "spacing b and the channel velocity, reduced by b/L. Its h is referred to "
+                "the inlet air: the heating of the air along the channel is inside it."
+            ),
+            present.equation(
+                r"Nu_b = \dfrac{h\,b}{k_a} = \left[\left(\dfrac{Re_b^{*}\,Pr}{2}\right)^{-3}"
+                r" + \left(0.664\,\sqrt{Re_b^{*}}\,Pr^{1/3}\sqrt{1+\dfrac{3.65}"
+                r"{\sqrt{Re_b^{*}}}}\right)^{-3}\right]^{-1/3},\quad Re_b^{*} = "
+                r"\dfrac{V_{ch}\,b}{\nu}\,\dfrac{b}{L}"
+            ),
+        ]
+        vdi = present.text(
+            f"The second model is the VDI plane-gap correlation {cite('vdi')}: laminar "
+            "developing flow, the transition interpolation between Re = 2300 and 10^4 on the "
+            f"gap diameter 2b, and the Gnielinski turbulent equation {cite('gnielinski')}; its "
+            "h is referred to the local bulk air, so the air heating is taken into account by "
+            f"effectiveness-NTU for an isothermal base {cite('kays_london')}."
+        )
+        if channel == "lower":
             parts += [
                 present.text(
-                    f"Laminar channels use the composite model of Teertstra et al. "
-                    f"{cite('teertstra')}, on the channel Reynolds number built on the fin "
-                    "spacing b and the channel velocity, reduced by b/L. Its h is referred to "
-                    "the inlet air: the heating of the air along the channel is inside it."
+                    "Two accepted models are evaluated and the one giving the higher sink "
+                    "resistance (less heat transfer) is used, design by design. Near and above "
+                    "Re_Dh = 2300 they bracket the channel flow: a heat-sink channel is far "
+                    "shorter than the laminar entry length 0.05 Re_Dh D_h, so its boundary "
+                    "layers are still developing and laminar, unless an upstream fan trips "
+                    "them into transition. Taking the lower heat transfer is finkit's "
+                    "conservative choice; the correlation spread shows both."
                 ),
-                present.equation(
-                    r"Nu_b = \dfrac{h\,b}{k_a} = \left[\left(\dfrac{Re_b^{*}\,Pr}{2}\right)^{-3}"
-                    r" + \left(0.664\,\sqrt{Re_b^{*}}\,Pr^{1/3}\sqrt{1+\dfrac{3.65}"
-                    r"{\sqrt{Re_b^{*}}}}\right)^{-3}\right]^{-1/3},\quad Re_b^{*} = "
-                    r"\dfrac{V_{ch}\,b}{\nu}\,\dfrac{b}{L}"
-                ),
-                present.text(
-                    f"Where the flow is not laminar (Re on 2b above 2300) the VDI plane-gap "
-                    f"correlation {cite('vdi')} with the Gnielinski turbulent equation "
-                    f"{cite('gnielinski')} is used instead; its h is referred to the local bulk "
-                    "air and the air heating is then taken into account by effectiveness-NTU "
-                    f"for an isothermal base {cite('kays_london')}."
-                ),
+                *teertstra,
+                vdi,
             ]
+        elif channel == "teertstra":
+            parts += [*teertstra]
         else:
-            parts.append(
-                present.text(
-                    f"The channels use the VDI plane-gap correlation {cite('vdi')} (laminar "
-                    f"developing flow, Gnielinski turbulent branch {cite('gnielinski')}); h is "
-                    "referred to the local bulk air, so the air heating is taken into account "
-                    f"by effectiveness-NTU for an isothermal base {cite('kays_london')}."
-                )
+            parts.append(vdi)
+        parts.append(
+            present.text(
+                "The outer faces of the two end fins are not counted: the flow model sends "
+                "air only through the channels between fins (conservative)."
             )
+        )
         parts.append(
             present.equation(
                 r"\varepsilon = 1 - e^{-NTU},\quad NTU = \dfrac{\eta_o\,h\,A_t}{\dot m\,c_p},"
@@ -1285,17 +1306,35 @@ def method_section(result) -> present.Fragment:
         parts += [
             present.heading("Forced convection across the pin array", 3),
             present.text(
-                f"The pins use the tube-bank correlation of Zukauskas {cite('zukauskas')} on the "
-                "Reynolds number at the largest velocity between pins, with the row correction "
-                "C2 for fewer than 20 rows; the property-ratio factor (Pr/Pr_s)^1/4 is taken "
-                "as 1 for air. The base between the pins uses the laminar flat-plate mean "
-                f"coefficient {cite('incropera')}. The h is referred to the local bulk air, so "
-                "the air heating is taken into account by effectiveness-NTU for an isothermal "
-                f"base {cite('kays_london')}."
+                {
+                    "lower": "Two accepted tube-bank correlations are evaluated and the lower h "
+                    "is used, design by design (finkit's conservative choice; neither was "
+                    "fitted to short pins on a heated base, and the correlation spread shows "
+                    "both). ",
+                    "zukauskas": "",
+                    "gnielinski": "",
+                }[getattr(opts, "pin_bank_method", "lower")]
+                + f"Zukauskas {cite('zukauskas')} works on the Reynolds number at the largest "
+                "velocity between pins, with the row correction C2 for fewer than 20 rows and "
+                "the property-ratio factor (Pr/Pr_s)^1/4 taken as 1 for air. Its published "
+                "table steps where its constants change (up to 27 %); finkit joins "
+                "neighbouring branches over a factor 1.4 in Re_D,max on the side where the "
+                "table is higher, so h is continuous and never above the table. Gnielinski "
+                f"{cite('vdi_bank')} treats each pin as a body streamed over half its "
+                "circumference, l = pi D/2, at the velocity in the void fraction psi, with an "
+                "arrangement factor f_A and a row factor for fewer than 10 rows. The base "
+                "between the pins uses the laminar flat-plate mean coefficient "
+                f"{cite('incropera')}. The h is referred to the local bulk air, so the air "
+                "heating is taken into account by effectiveness-NTU for an isothermal base "
+                f"{cite('kays_london')}."
             ),
             present.equation(
-                r"Nu_D = C\,C_2(N_L)\,Re_{D,max}^{\,m}\,Pr^{0.36},\quad \varepsilon = 1 - "
-                r"e^{-NTU},\quad NTU = \dfrac{\eta_o\,h\,A_t}{\dot m\,c_p}"
+                r"Nu_D = C\,C_2(N_L)\,Re_{D,max}^{\,m}\,Pr^{0.36},\quad Nu_l = f_A\left[0.3"
+                r" + \sqrt{Nu_{lam}^2 + Nu_{turb}^2}\right],\quad Re_{\psi,l} = "
+                r"\dfrac{V\,l}{\psi\,\nu}"
+            ),
+            present.equation(
+                r"\varepsilon = 1 - e^{-NTU},\quad NTU = \dfrac{\eta_o\,h\,A_t}{\dot m\,c_p}"
             ),
         ]
     # Fin efficiency (all)
@@ -1315,7 +1354,7 @@ def method_section(result) -> present.Fragment:
             ),
             present.equation(
                 r"\eta_f = \dfrac{\tanh(m L_c)}{m L_c},\quad m = \sqrt{\dfrac{2h}{k\,t}},"
-                r"\quad \eta_o = 1 - \dfrac{N A_f}{A_t}\,(1 - \eta_f)"
+                r"\quad \eta_o = 1 - \dfrac{A_f}{A_t}\,(1 - \eta_f)"
             ),
         ]
     else:

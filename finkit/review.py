@@ -39,6 +39,7 @@ from finkit.properties.atmosphere import ALTITUDE_RANGE, standard_atmosphere
 from finkit.review_schema import MEASUREMENT_NODES, TOUCH_SURFACES
 from finkit.sink import (
     NATURAL_CHANNEL_METHODS,
+    PLATE_CHANNEL_CHOICES,
     FanDriven,
     GivenVelocity,
     GivenVolumeFlow,
@@ -1404,13 +1405,13 @@ def _spread_axes(inputs: SinkInputs) -> dict[str, tuple[str, ...]]:
         candidates = {"natural_channel_method": NATURAL_CHANNEL_METHODS}
     elif isinstance(inputs.geometry, PlateFinSink):
         candidates = {
-            "plate_channel_method": forced.PLATE_CHANNEL_METHODS,
+            "plate_channel_method": PLATE_CHANNEL_CHOICES,
             "loss_model": forced.LOSS_MODELS,
         }
     else:
-        # Pin banks: one heat-transfer correlation (Zukauskas) and one pressure-drop method
-        # (forced.PIN_BANK_PRESSURE_DROP_METHODS); nothing to vary in this version.
-        candidates = {}
+        # Pin banks: two heat-transfer correlations (Zukauskas, Gnielinski) and their lower
+        # envelope; one pressure-drop method (forced.PIN_BANK_PRESSURE_DROP_METHODS).
+        candidates = {"pin_bank_method": forced.PIN_BANK_METHODS}
     return {k: tuple(v) for k, v in candidates.items() if len(v) > 1}
 
 
@@ -1426,8 +1427,9 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
     -------
     CorrelationSpread
         One row per combination of the alternatives that apply to the case (plate-fin forced
-        flow: ``forced.PLATE_CHANNEL_METHODS`` x ``forced.LOSS_MODELS``; natural convection:
-        ``sink.NATURAL_CHANNEL_METHODS``; pin fins: none yet), each a full re-solve
+        flow: ``sink.PLATE_CHANNEL_CHOICES`` x ``forced.LOSS_MODELS``; natural convection:
+        ``sink.NATURAL_CHANNEL_METHODS``; pin fins: ``forced.PIN_BANK_METHODS``), each a full
+        re-solve
         (with a fan, the operating point moves with the loss model), and the spread
         ``max - min`` of each headline quantity, absolute and relative to the chosen model.
 

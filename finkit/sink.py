@@ -34,7 +34,7 @@ from __future__ import annotations
 
 import contextlib
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Literal
 
 import numpy as np
@@ -45,6 +45,7 @@ from finkit.airflow import (
     bypass_gap_pressure_drop,
     operating_point,
     operating_point_with_bypass,
+    parallel_pressure_drop,
     split_bypass,
 )
 from finkit.correlations import forced, natural
@@ -58,6 +59,11 @@ from finkit.spreading import spreading_resistance_rectangular_series
 
 NATURAL_CHANNEL_METHODS = ("bar_cohen_rohsenow", "elenbaas")
 """Natural-convection channel correlations of vertical plate fins (``ModelOptions``)."""
+
+PLATE_CHANNEL_CHOICES = ("lower", *forced.PLATE_CHANNEL_METHODS)
+"""Plate-fin channel heat transfer in forced flow (``ModelOptions.plate_channel_method``):
+``"lower"`` (default) solves the sink with each of ``forced.PLATE_CHANNEL_METHODS`` and keeps,
+design by design, the higher sink resistance (the lower heat transfer); or one of them."""
 
 NODES = ("junction", "case", "base")
 """Nodes a temperature limit may be placed on. ``base`` is the centre of the base surface under
@@ -195,7 +201,13 @@ class ModelOptions:
     Attributes
     ----------
     plate_channel_method : str
-        Plate-fin channel heat transfer, one of ``forced.PLATE_CHANNEL_METHODS``.
+        Plate-fin channel heat transfer, one of :data:`PLATE_CHANNEL_CHOICES`; default
+        ``"lower"``: the laminar-developing (Teertstra) and the VDI model (laminar, transition,
+        turbulent) each give a sink resistance and the higher is used (conservative where the
+        flow is near transition and the two bracket h).
+    pin_bank_method : str
+        Pin-array heat transfer, one of ``forced.PIN_BANK_METHODS``; default ``"lower"`` (the
+        lower h of Zukauskas and Gnielinski).
     loss_model : str
         Entrance/exit loss model of the plate-fin channels, one of ``forced.LOSS_MODELS``.
     heat_transfer_factor : float or array
@@ -230,7 +242,7 @@ class ModelOptions:
         apply. None (default) = computed from the correlations.
     """
 
-    plate_channel_method: str = "teertstra"
+    plate_channel_method: str = "lower"
     loss_model: str = "kays_london"
     heat_transfer_factor: float | np.ndarray = 1.0
     fouling_resistance: float | np.ndarray = 0.0
@@ -241,8 +253,18 @@ class ModelOptions:
     deposit_thickness: float | np.ndarray = 0.0
     sink_resistance_factor: float | np.ndarray = 1.0
     heat_transfer_coefficient_override: float | np.ndarray | None = None
+    pin_bank_method: str = "lower"
 
     def __post_init__(self):
+        for name, allowed in (
+            ("plate_channel_method", PLATE_CHANNEL_CHOICES),
+            ("pin_bank_method", forced.PIN_BANK_METHODS),
+            ("loss_model", forced.LOSS_MODELS),
+        ):
+            if getattr(self, name) not in allowed:
+                raise InputError(
+                    f"{name}: got {getattr(self, name)!r}; allowed: {', '.join(allowed)}"
+                )
         if self.natural_channel_method not in NATURAL_CHANNEL_METHODS:
             raise InputError(
                 f"natural_channel_method: got {self.natural_channel_method!r}; allowed: "
@@ -419,22 +441,47 @@ def _is_shrouded(bypass: Bypass | None):
 
 
 def _bypass_geometry(geometry, bypass: Bypass | None):
-    """Flow area [m²] and equivalent hydraulic diameter [m] of the bypass gaps (or None)."""
+    """Flow area [m²] and hydraulic diameter [m] of each bypass branch, or None.
+
+    Two branches: the two side gaps (``2 s H``, a slot of width s: ``D_h ≈ 2 s``) and the gap
+    above the fin tips (``g (W + 2 s)``, ``D_h ≈ 2 g``). A branch with zero area is closed.
+    """
     if bypass is None:
         return None
     side, top = np.asarray(bypass.side_gap, float), np.asarray(bypass.top_gap, float)
     height = _fin_height(geometry)
     width = geometry.base_width
-    side_area = 2.0 * side * height
-    top_area = top * (width + 2.0 * side)
-    area = side_area + top_area
-    # Each gap is a slot: its hydraulic diameter is about twice its width. The area-weighted
-    # mean stands for the combined branch (common practice, no source).
-    with np.errstate(invalid="ignore", divide="ignore"):
-        hydraulic = np.where(area > 0, (side_area * 2 * side + top_area * 2 * top) / area, 0.0)
-    if np.all(area <= 0):
-        return None
-    return area, hydraulic
+    branches = {
+        "side": (2.0 * side * height, 2.0 * side),
+        "top": (top * (width + 2.0 * side), 2.0 * top),
+    }
+    open_branches = {k: v for k, v in branches.items() if np.any(v[0] > 0)}
+    return open_branches or None
+
+
+def _bypass_pressure_drop(geometry, bypass: Bypass, branches, density, viscosity):
+    """``dp(q)`` of each bypass branch [Pa] (a tuple; see ``airflow.parallel_pressure_drop``).
+
+    The side gaps and the top gap are separate parallel branches between the same pressures
+    (methods.md h): at a given total they share the flow so that their pressure drops are
+    equal (:func:`finkit.airflow.split_bypass`). Each branch has its own friction on its own
+    gap width, so unequal gaps take unequal shares; lumping them into one branch with a mean
+    diameter gave up to about 15 % less bypass flow. The fan solver solves the branches
+    together (one Newton system); elsewhere they are combined by nested splits.
+    """
+    loss = bypass.loss_coefficient
+
+    def branch(name):
+        area, diameter = branches[name]
+
+        def dp(q):
+            return bypass_gap_pressure_drop(
+                q, area, diameter, geometry.base_length, density, viscosity, loss_coefficient=loss
+            )
+
+        return dp
+
+    return tuple(branch(name) for name in branches)
 
 
 def _duct_area(geometry, bypass: Bypass | None) -> np.ndarray:
@@ -504,6 +551,7 @@ def _pin_flow(
         conductivity,
         prandtl,
         base_length=geometry.base_length,
+        method=options.pin_bank_method,
     )
 
 
@@ -531,13 +579,8 @@ def solve_airflow(
         return sink_pressure_drop(geometry, q, rho, mu, is_shrouded=shrouded, options=options)
 
     if gaps is not None:
-        gap_area, gap_diameter = gaps
-        loss = bypass.loss_coefficient
-
-        def dp_bypass(q):
-            return bypass_gap_pressure_drop(
-                q, gap_area, gap_diameter, geometry.base_length, rho, mu, loss_coefficient=loss
-            )
+        bypass_branches = _bypass_pressure_drop(geometry, bypass, gaps, rho, mu)
+        dp_bypass = parallel_pressure_drop(bypass_branches)
 
         def system(q):
             return split_bypass(q, dp_sink, dp_bypass).pressure_drop
@@ -551,7 +594,7 @@ def solve_airflow(
         fan_with_bypass = operating_point_with_bypass(
             flow.fan,
             dp_sink,
-            dp_bypass,
+            bypass_branches,
             options.extra_pressure_drop,
             density=rho,
             pressure_factor=options.fan_pressure_factor,
@@ -635,82 +678,157 @@ def _adiabatic_fin(h, k, section, length):
     return fin.efficiency, fin.fin_parameter * length
 
 
+@dataclass(frozen=True)
+class _Surface:
+    """Air-side conductance of the finned surface for one heat-transfer model."""
+
+    heat_transfer_coefficient: np.ndarray
+    fin_efficiency: np.ndarray
+    fin_parameter_length: np.ndarray  # m·L of the fins [-]
+    fin_area: np.ndarray
+    base_area: np.ndarray
+    conductance: np.ndarray  # eta_f h A_f + h_b A_b [W/K]
+    inlet_referenced: np.ndarray
+    channel_velocity: np.ndarray
+    reynolds_number: np.ndarray
+    transverse_biot: np.ndarray
+    warnings: tuple[str, ...]
+
+
+def _plate_surface(geometry, material, film, airflow, is_shrouded, options, method):
+    flow = forced.plate_fin_channel_flow(
+        airflow.sink_volume_flow,
+        geometry.base_width,
+        geometry.fin_count,
+        _passage_thickness(geometry.fin_thickness, options),
+        geometry.fin_height,
+        geometry.base_length,
+        film.density,
+        film.dynamic_viscosity,
+        film.thermal_conductivity,
+        film.prandtl,
+        is_shrouded=is_shrouded,
+        method=method,
+        loss_model=options.loss_model,
+    )
+    h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
+    t, H, L, N = (
+        geometry.fin_thickness,
+        geometry.fin_height,
+        geometry.base_length,
+        geometry.fin_count,
+    )
+    # Corrected length only when the tip sees the flow (methods.md, pitfall 5).
+    length = np.where(is_shrouded, H, H + t / 2.0)
+    plate = fins.rectangular_fin_section(t, L, include_edges=False)
+    eta_f, mL = _adiabatic_fin(h, material.thermal_conductivity, plate, length)
+    # Wetted fin faces: the two faces of each of the N - 1 channels. The outer faces of the
+    # two end fins face the duct wall or a bypass gap, where the channel model sends no air;
+    # they are not counted (conservative; the end fins' efficiency is taken as that of the
+    # others, also conservative since they are cooled on one face only).
+    fin_area = (N - 1.0) * 2.0 * length * L
+    base_area = geometry.base_exposed_area
+    return _Surface(
+        heat_transfer_coefficient=np.asarray(h, float),
+        fin_efficiency=np.asarray(eta_f, float),
+        fin_parameter_length=np.asarray(mL, float),
+        fin_area=np.asarray(fin_area, float),
+        base_area=np.asarray(base_area, float),
+        conductance=eta_f * h * fin_area + h * base_area,
+        inlet_referenced=np.asarray(flow.is_inlet_referenced, bool),
+        channel_velocity=np.asarray(flow.channel_velocity, float),
+        reynolds_number=np.asarray(flow.modified_reynolds, float),
+        transverse_biot=h * (t / 2.0) / material.thermal_conductivity,
+        warnings=tuple(forced.plate_fin_flow_warnings(flow)),
+    )
+
+
+def _pin_surface(geometry, material, film, airflow, is_shrouded, options):
+    flow = _pin_flow(
+        geometry,
+        airflow.sink_volume_flow,
+        film.density,
+        film.dynamic_viscosity,
+        film.thermal_conductivity,
+        film.prandtl,
+        options,
+    )
+    h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
+    D, H = geometry.pin_diameter, geometry.pin_height
+    length = np.where(is_shrouded, H, H + D / 4.0)
+    eta_f, mL = _adiabatic_fin(h, material.thermal_conductivity, fins.pin_fin_section(D), length)
+    fin_area = geometry.pin_count * np.pi * D * length
+    base_area = geometry.base_exposed_area
+    h_base = options.effective_heat_transfer_coefficient(flow.base_heat_transfer_coefficient)
+    return _Surface(
+        heat_transfer_coefficient=np.asarray(h, float),
+        fin_efficiency=np.asarray(eta_f, float),
+        fin_parameter_length=np.asarray(mL, float),
+        fin_area=np.asarray(fin_area, float),
+        base_area=np.asarray(base_area, float),
+        conductance=eta_f * h * fin_area + h_base * base_area,
+        inlet_referenced=np.asarray(flow.is_inlet_referenced, bool),
+        channel_velocity=np.asarray(flow.max_velocity, float),
+        reynolds_number=np.asarray(flow.reynolds_max, float),
+        transverse_biot=h * (D / 4.0) / material.thermal_conductivity,
+        warnings=tuple(forced.pin_fin_flow_warnings(flow)),
+    )
+
+
+def _surface_resistance(surface: _Surface, capacity):
+    """Sink resistance (mean base to inlet air) of a surface before the clamp [K W⁻¹].
+
+    Inlet-referenced h (Teertstra): the air heating is inside h already (methods.md e2, j).
+    Bulk-referenced h: isothermal-base effectiveness, eps = 1 - exp(-NTU) (methods.md j).
+    """
+    effectiveness = -np.expm1(-surface.conductance / capacity)
+    return np.where(
+        surface.inlet_referenced, 1.0 / surface.conductance, 1.0 / (effectiveness * capacity)
+    )
+
+
+def _pick(choose_second, first: _Surface, second: _Surface) -> _Surface:
+    """Element by element, ``second`` where ``choose_second`` else ``first``."""
+    fields = {}
+    for name in first.__dataclass_fields__:
+        if name == "warnings":
+            continue
+        fields[name] = np.where(choose_second, getattr(second, name), getattr(first, name))
+    return _Surface(**fields, warnings=tuple(dict.fromkeys(first.warnings + second.warnings)))
+
+
 def _forced_convection(
     geometry, material, film, airflow: _Airflow, inlet_density, is_shrouded, options: ModelOptions
 ):
     """Sink resistance (mean base to inlet air) for forced flow at given film properties."""
-    k_s = material.thermal_conductivity
+    capacity = inlet_density * airflow.sink_volume_flow * film.specific_heat  # W/K
     warnings: list[str] = []
     if isinstance(geometry, PlateFinSink):
-        flow = forced.plate_fin_channel_flow(
-            airflow.sink_volume_flow,
-            geometry.base_width,
-            geometry.fin_count,
-            _passage_thickness(geometry.fin_thickness, options),
-            geometry.fin_height,
-            geometry.base_length,
-            film.density,
-            film.dynamic_viscosity,
-            film.thermal_conductivity,
-            film.prandtl,
-            is_shrouded=is_shrouded,
-            method=options.plate_channel_method,
-            loss_model=options.loss_model,
-        )
-        h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
-        t, H, L, N = (
-            geometry.fin_thickness,
-            geometry.fin_height,
-            geometry.base_length,
-            geometry.fin_count,
-        )
-        # Corrected length only when the tip sees the flow (methods.md, pitfall 5).
-        length = np.where(is_shrouded, H, H + t / 2.0)
-        plate = fins.rectangular_fin_section(t, L, include_edges=False)
-        eta_f, mL = _adiabatic_fin(h, k_s, plate, length)
-        fin_area = N * 2.0 * length * L
-        base_area = geometry.base_exposed_area
-        conductance_fins = eta_f * h * fin_area
-        conductance = conductance_fins + h * base_area
-        inlet_referenced = np.asarray(flow.is_inlet_referenced, bool)
-        channel_velocity = flow.channel_velocity
-        reynolds = flow.modified_reynolds
-        warnings += forced.plate_fin_flow_warnings(flow)
-        transverse_biot = h * (t / 2.0) / k_s
+        args = (geometry, material, film, airflow, is_shrouded, options)
+        if options.plate_channel_method == "lower":
+            # The choice is made on the correlations themselves; a hand-given h then takes
+            # the reference (inlet or bulk) of the model chosen, as it would with that model.
+            plain = replace(options, heat_transfer_coefficient_override=None)
+            plain_args = (geometry, material, film, airflow, is_shrouded, plain)
+            laminar = _plate_surface(*plain_args, "teertstra")
+            bracket = _plate_surface(*plain_args, "vdi")
+            r_laminar = _surface_resistance(laminar, capacity)
+            r_bracket = _surface_resistance(bracket, capacity)
+            use_bracket = r_bracket > r_laminar
+            warnings += _bracket_warning(laminar, r_laminar, r_bracket)
+            if options.heat_transfer_coefficient_override is not None:
+                laminar = _plate_surface(*args, "teertstra")
+                bracket = _plate_surface(*args, "vdi")
+            surface = _pick(use_bracket, laminar, bracket)
+        else:
+            surface = _plate_surface(*args, options.plate_channel_method)
     else:
-        flow = _pin_flow(
-            geometry,
-            airflow.sink_volume_flow,
-            film.density,
-            film.dynamic_viscosity,
-            film.thermal_conductivity,
-            film.prandtl,
-            options,
-        )
-        h = options.effective_heat_transfer_coefficient(flow.heat_transfer_coefficient)
-        D, H = geometry.pin_diameter, geometry.pin_height
-        length = np.where(is_shrouded, H, H + D / 4.0)
-        eta_f, mL = _adiabatic_fin(h, k_s, fins.pin_fin_section(D), length)
-        fin_area = geometry.pin_count * np.pi * D * length
-        base_area = geometry.base_exposed_area
-        conductance_fins = eta_f * h * fin_area
-        h_base = options.effective_heat_transfer_coefficient(flow.base_heat_transfer_coefficient)
-        conductance = conductance_fins + h_base * base_area
-        inlet_referenced = np.asarray(flow.is_inlet_referenced, bool)
-        channel_velocity = flow.max_velocity
-        reynolds = flow.reynolds_max
-        warnings += forced.pin_fin_flow_warnings(flow)
-        transverse_biot = h * (D / 4.0) / k_s
-
-    warnings += one_dimensional_fin_warnings(transverse_biot)
-    total_area = fin_area + base_area
-    eta_o = 1.0 - fin_area / total_area * (1.0 - eta_f)
-    capacity = inlet_density * airflow.sink_volume_flow * film.specific_heat  # W/K
-    # Inlet-referenced h (Teertstra): the air heating is inside h already (methods.md e2, j).
-    # Bulk-referenced h: isothermal-base effectiveness, eps = 1 - exp(-NTU) (methods.md j).
-    ntu = conductance / capacity
-    effectiveness = -np.expm1(-ntu)
-    r_sink = np.where(inlet_referenced, 1.0 / conductance, 1.0 / (effectiveness * capacity))
+        surface = _pin_surface(geometry, material, film, airflow, is_shrouded, options)
+    warnings = list(surface.warnings) + warnings
+    warnings += one_dimensional_fin_warnings(surface.transverse_biot)
+    total_area = surface.fin_area + surface.base_area
+    eta_o = 1.0 - surface.fin_area / total_area * (1.0 - surface.fin_efficiency)
+    r_sink = _surface_resistance(surface, capacity)
     # An inlet-referenced model can never beat the fully heated limit m cp (guard of e2).
     clamped = r_sink < 1.0 / capacity
     if np.any(clamped):
@@ -720,17 +838,41 @@ def _forced_convection(
             "at the base temperature; the correlation is outside what it can describe here)"
         )
     r_sink = np.maximum(r_sink, 1.0 / capacity) * options.sink_resistance_factor
-    tip_ratio = 1.0 / np.cosh(mL)
     return _Convection(
         sink_resistance=r_sink,
-        heat_transfer_coefficient=np.asarray(h, float),
-        fin_efficiency=np.asarray(eta_f, float),
+        heat_transfer_coefficient=surface.heat_transfer_coefficient,
+        fin_efficiency=surface.fin_efficiency,
         surface_efficiency=np.asarray(eta_o, float),
-        tip_ratio=tip_ratio,
-        channel_velocity=np.asarray(channel_velocity, float),
-        reynolds_number=np.asarray(reynolds, float),
+        tip_ratio=1.0 / np.cosh(surface.fin_parameter_length),
+        channel_velocity=surface.channel_velocity,
+        reynolds_number=surface.reynolds_number,
         warnings=tuple(dict.fromkeys(warnings)),
     )
+
+
+def _bracket_warning(laminar: _Surface, r_laminar, r_bracket) -> list[str]:
+    """Say by how much the two plate-channel models differ where the flow is near transition
+    (the transition message of ``forced.plate_channel_transition_warnings`` names the case)."""
+    if not any(w.startswith("plate channel: Re_Dh") for w in laminar.warnings):
+        return []
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.asarray(r_bracket / r_laminar, float)
+    ratio = ratio[np.isfinite(ratio)]
+    if ratio.size == 0:
+        return []
+    lo, hi = 100 * (ratio.min() - 1), 100 * (ratio.max() - 1)
+    shown = f"{lo:+.0f} %" if abs(hi - lo) < 0.5 else f"{lo:+.0f} % to {hi:+.0f} %"
+    used = (
+        "the laminar-developing value is used"
+        if np.all(ratio <= 1)
+        else "the VDI value is used"
+        if np.all(ratio > 1)
+        else "the higher of the two is used for each design"
+    )
+    return [
+        "plate channel: near transition the VDI model gives a sink resistance "
+        f"{shown} against the laminar-developing (Teertstra) model; {used} (conservative)"
+    ]
 
 
 def _chain(geometry, material, source: HeatSource, sink_resistance):

@@ -18,8 +18,9 @@ tip at the fin height H):
   (Re* Pr / 2)^-3 + (0.664 sqrt(Re*) Pr^(1/3) sqrt(1 + 3.65/sqrt(Re*)))^-3 composite);
 * heat-transfer air properties at the film temperature (T_in + T_base)/2, with
   ``T_base = T_in + P R_sink``, solved to convergence with brentq;
-* fin efficiency ``tanh(mH)/(mH)``, ``m = sqrt(2h/(k t))``; ``A_f = 2 H L`` per fin,
-  ``A_b = (N - 1) b L``; ``eta_o`` and ``R_sink = 1/(eta_o h A_t)`` [methods.md a, c];
+* fin efficiency ``tanh(mH)/(mH)``, ``m = sqrt(2h/(k t))``; ``A_f = 2 H L`` per channel
+  (N - 1 channels; the end fins' outer faces touch the shroud), ``A_b = (N - 1) b L``;
+  ``eta_o`` and ``R_sink = 1/(eta_o h A_t)`` [methods.md a, c];
 * exact rectangular spreading series (Yovanovich, Muzychka & Culham 1999) for the average
   source temperature with ``h = 1/(R_sink W L)`` on the cooled face, plus the 1-D base
   conduction ``t_b/(k W L)`` [methods.md i2] (finkit's solver uses the series since issue 12;
@@ -197,10 +198,12 @@ def convection(d: Design, volume_flow: float, film_temperature: float, pressure:
     m = math.sqrt(2.0 * h / (d.conductivity * d.fin_thickness))
     mh = m * d.fin_height
     eta_f = math.tanh(mh) / mh
-    a_fin = 2.0 * d.fin_height * d.base_length
+    # Wetted fin faces: two per channel, N - 1 channels. The outer faces of the end fins touch
+    # the shroud's side walls in this fully shrouded model, so no air reaches them.
+    a_fins = 2.0 * (d.fin_count - 1) * d.fin_height * d.base_length
     a_base = (d.fin_count - 1) * b * d.base_length
-    a_total = d.fin_count * a_fin + a_base
-    eta_o = 1.0 - d.fin_count * a_fin / a_total * (1.0 - eta_f)
+    a_total = a_fins + a_base
+    eta_o = 1.0 - a_fins / a_total * (1.0 - eta_f)
     return {
         "re_b": re_b,
         "re_star": re_star,

@@ -483,7 +483,7 @@ def test_apply_calibration_reproduces_the_fitted_predictions(natural_case):
 def test_correlation_spread_plate_fin_forced(fan_case):
     _, inputs = fan_case
     spread = correlation_spread(inputs)
-    assert len(spread.rows) == 4  # teertstra/vdi x kays_london/culham_muzychka
+    assert len(spread.rows) == 6  # lower/teertstra/vdi x kays_london/culham_muzychka
     chosen = spread.chosen
     assert chosen is spread.rows[0]
     sol = solve(inputs)
@@ -502,13 +502,20 @@ def test_correlation_spread_plate_fin_forced(fan_case):
 
 
 @pytest.mark.identity
-def test_correlation_spread_pin_fin_has_one_model(pin_case):
+def test_correlation_spread_pin_fin_shows_both_correlations(pin_case):
+    # Issue 12: pin fins get a model-form spread (Zukauskas, Gnielinski and their lower
+    # envelope, the default); the chosen row is the envelope and is the hotter of the two.
     _, inputs = pin_case
     spread = correlation_spread(inputs)
-    assert spread.axes == {}
-    assert len(spread.rows) == 1
-    assert all(v == 0.0 for v in spread.spread.values())
-    assert "one accepted correlation" in spread.statement
+    assert spread.axes == {"pin_bank_method": ("lower", "zukauskas", "gnielinski")}
+    rows = {r.methods["pin_bank_method"]: r for r in spread.rows}
+    assert spread.chosen is rows["lower"]
+    assert rows["zukauskas"].sink_resistance != rows["gnielinski"].sink_resistance
+    assert rows["lower"].sink_resistance == pytest.approx(
+        max(rows["zukauskas"].sink_resistance, rows["gnielinski"].sink_resistance), rel=1e-6
+    )
+    assert spread.spread["junction_temperature"] > 0.0
+    assert "Model-form spread over 3 combinations" in spread.statement
 
 
 @pytest.mark.published

@@ -84,6 +84,15 @@ PLATE_CHANNEL_METHODS = ("teertstra", "vdi")
 LOSS_MODELS = ("kays_london", "culham_muzychka")
 #: Pin-array pressure-drop methods accepted by :func:`pin_fin_bank_flow`.
 PIN_BANK_PRESSURE_DROP_METHODS = ("gaddis_gnielinski",)
+#: Pin-array heat-transfer models accepted by :func:`pin_fin_bank_flow`: ``"lower"`` (default)
+#: takes, design by design, the lower h of the two published correlations (both refer h to the
+#: bulk air, so their h compare directly); ``"zukauskas"`` and ``"gnielinski"`` use one of them.
+PIN_BANK_METHODS = ("lower", "zukauskas", "gnielinski")
+
+#: Factor on Re_D,max over which two neighbouring Zukauskas branches are joined
+#: (:func:`nusselt_pin_bank_zukauskas`): the band runs from a boundary up (the table steps up
+#: there) or down (it steps down) by this factor, on the side where the table is higher [-].
+ZUKAUSKAS_BLEND_FACTOR = 1.4
 
 #: Upper Reynolds number of laminar duct flow (on the hydraulic diameter) [-].
 LAMINAR_LIMIT_REYNOLDS = 2300.0
@@ -135,6 +144,44 @@ ZUKAUSKAS_PRANDTL = ValidityRange(
     low=0.7,
     high=500.0,
     source="Zukauskas 1972; Incropera et al. 6th ed. Table 7.5 (methods.md f1)",
+)
+ZUKAUSKAS_TRANSVERSE_RATIO = ValidityRange(
+    method="pin-bank heat transfer (Zukauskas; Gnielinski)",
+    quantity="S_T/D",
+    low=1.25,
+    high=3.0,
+    source="pitch ratios of the tube banks behind both correlations, about 1.25 to 3 (from "
+    "memory: Zukauskas 1972; VDI Heat Atlas ch. G7)",
+)
+ZUKAUSKAS_LONGITUDINAL_RATIO = ValidityRange(
+    method="pin-bank heat transfer (Zukauskas; Gnielinski)",
+    quantity="S_L/D",
+    low=1.0,
+    high=3.0,
+    source="pitch ratios of the tube banks behind both correlations, about 1 to 3 along the "
+    "flow (from memory: Zukauskas 1972; VDI Heat Atlas ch. G7)",
+)
+PIN_ASPECT_RATIO = ValidityRange(
+    method="pin-bank heat transfer (tube-bank data on long tubes)",
+    quantity="pin height / diameter H/D",
+    low=4.0,
+    high=np.inf,
+    source="tube-bank correlations come from long tubes; on short pins the base (end-wall) "
+    "flow dominates and h can differ by 20 % or more (common practice, no source)",
+)
+GNIELINSKI_BANK_REYNOLDS = ValidityRange(
+    method="Gnielinski tube-bundle correlation (pin array)",
+    quantity="Re_psi,l",
+    low=10.0,
+    high=1.0e6,
+    source="VDI Heat Atlas, ch. G7 (Gnielinski), as stated in the FluidDissipation library",
+)
+GNIELINSKI_BANK_PRANDTL = ValidityRange(
+    method="Gnielinski tube-bundle correlation (pin array)",
+    quantity="Pr",
+    low=0.6,
+    high=1.0e3,
+    source="VDI Heat Atlas, ch. G7 (Gnielinski), as stated in the FluidDissipation library",
 )
 GADDIS_GNIELINSKI_REYNOLDS = ValidityRange(
     method="Gaddis & Gnielinski (1985) tube-bank pressure drop",
@@ -780,6 +827,12 @@ class PlateChannelFlow(NamedTuple):
     method: str
     #: Entrance/exit loss model used.
     loss_model: str
+    #: Reynolds number on the channel length ``V_ch L / nu`` (boundary-layer development) [-].
+    reynolds_length: np.ndarray
+    #: Laminar hydrodynamic entry length ``0.05 Re_Dh D_h`` [m].
+    entry_length: np.ndarray
+    #: Channel length L along the flow [m].
+    channel_length: np.ndarray
 
 
 def plate_fin_channel_flow(
@@ -826,9 +879,11 @@ def plate_fin_channel_flow(
         True: a duct wall touches the fin tips (four wetted walls); False: open top (three) [-].
     method : str, optional
         Heat-transfer model, one of :data:`PLATE_CHANNEL_METHODS` [-]:
-        ``"teertstra"`` (default; inlet-referenced; where ``Re_2b = 2 Re_b > 2300`` the VDI
-        transitional/turbulent value is used instead, bulk-referenced) or ``"vdi"`` (VDI plane
-        gap over all regimes, bulk-referenced).
+        ``"teertstra"`` (default; laminar developing flow, inlet-referenced, at every Reynolds
+        number) or ``"vdi"`` (VDI plane gap over all regimes: laminar developing, the
+        transition interpolation and Gnielinski turbulent, bulk-referenced). The heat-sink
+        solver's default takes the lower of the two at the sink level
+        (``finkit.sink.ModelOptions``).
     loss_model : str, optional
         Entrance/exit loss model, one of :data:`LOSS_MODELS` [-].
     momentum_coefficient : float or array_like, optional
@@ -854,7 +909,17 @@ def plate_fin_channel_flow(
     with no caloric term. Where it is False (VDI: laminar gap, transition, Gnielinski turbulent)
     h is referred to the mean (logarithmic) temperature difference: use the isothermal-base
     ε-NTU form ``Q = (1 - exp(-NTU)) m_dot c_p (T_b - T_in)``, ``NTU = eta_o h A/(m_dot c_p)``.
-    The switch at ``Re_2b = 2300`` changes the reference, so h may step there.
+    Neither model switches to the other: each is continuous in the flow.
+
+    Transition (one criterion, ``Re_Dh``, for friction and for the warnings of
+    :func:`plate_fin_flow_warnings`): above ``Re_Dh = 2300`` flow in a long channel may become
+    transitional, but a heat-sink channel is usually far shorter than the laminar entry length
+    ``0.05 Re_Dh D_h`` (Incropera et al. 6th ed., Eq. 8.3), with boundary layers still laminar
+    (``Re_L = V_ch L / nu`` of order 1e4, below the flat-plate transition of about 5e5,
+    Incropera Eq. 7.29 ff.); an upstream fan may still trip them. The laminar-developing model
+    (Teertstra) and the transitional model (VDI) therefore bracket h there; the heat-sink
+    solver takes the lower. Inside the VDI correlation its own published Reynolds number
+    ``Re_2b`` (on the plane-gap hydraulic diameter 2b) is kept.
 
     Pressure drop (methods.md e3-e5): ``dp = [K_c + 4 f_app L / D_h + K_e] rho V_ch^2 / 2`` with
     :func:`fanning_friction_rectangular_channel` and :func:`loss_coefficients`. At zero flow
@@ -903,9 +968,8 @@ def plate_fin_channel_flow(
     nu_vdi_2b = nusselt_plate_channel_vdi(re_gap, pr, 2.0 * b, length)
     h_vdi = nu_vdi_2b * k_air / (2.0 * b)
     if method == "teertstra":
-        h_teertstra = nusselt_plate_channel_teertstra(re_star, pr) * k_air / b
-        inlet_ref = re_gap <= LAMINAR_LIMIT_REYNOLDS
-        h = np.where(inlet_ref, h_teertstra, h_vdi)
+        h = nusselt_plate_channel_teertstra(re_star, pr) * k_air / b
+        inlet_ref = np.ones(np.shape(h), dtype=bool)
     else:
         h = h_vdi
         inlet_ref = np.zeros(np.shape(h), dtype=bool)
@@ -948,6 +1012,9 @@ def plate_fin_channel_flow(
         prandtl=full(pr),
         method=method,
         loss_model=loss_model,
+        reynolds_length=full(v_ch * length / nu_kin),
+        entry_length=full(0.05 * re_dh * d_h),
+        channel_length=full(length),
     )
 
 
@@ -1035,6 +1102,74 @@ def row_correction_zukauskas(row_count, arrangement):
     )
 
 
+def _zukauskas_constants(arrangement, transverse_pitch, longitudinal_pitch):
+    """Branch boundaries and the (C, m) of each branch of Table F1 (methods.md f1).
+
+    Staggered banks with ``S_T/S_L > 2`` take ``C = 0.40`` from 1e3 to 2e5 (Zukauskas 1972 as
+    tabulated by Incropera et al. 6th ed. Table 7.5); it is the value of ``0.35 (S_T/S_L)^0.2``
+    at ``S_T/S_L = 2`` (0.402), so the two sub-branches join there. Above 2e5 the ratio is
+    capped at 2 the same way.
+    """
+    if arrangement == "inline":
+        return (100.0, 1000.0, 2.0e5), (0.9, 0.52, 0.27, 0.033), (0.4, 0.5, 0.63, 0.8)
+    ratio = _as_float(transverse_pitch) / _as_float(longitudinal_pitch)
+    mid = np.where(ratio > 2.0, 0.40, 0.35 * np.minimum(ratio, 2.0) ** 0.2)
+    high = 0.031 * np.minimum(ratio, 2.0) ** 0.2
+    return (500.0, 1000.0, 2.0e5), (1.04, 0.71, mid, high), (0.4, 0.5, 0.6, 0.8)
+
+
+def _zukauskas_table(re, arrangement, transverse_pitch, longitudinal_pitch):
+    """``C Re^m`` of Table F1 as published (piecewise, with its steps) [-]."""
+    bounds, cs, ms = _zukauskas_constants(arrangement, transverse_pitch, longitudinal_pitch)
+    conditions = [re < b for b in bounds]
+    c = np.select(conditions, cs[:-1], cs[-1])
+    m = np.select(conditions, ms[:-1], ms[-1])
+    return c * re**m
+
+
+def zukauskas_branch_steps(arrangement, transverse_pitch, longitudinal_pitch):
+    """Relative step of the published Zukauskas table at each branch boundary, for a design.
+
+    Parameters
+    ----------
+    arrangement : str
+        ``"inline"`` or ``"staggered"`` [-].
+    transverse_pitch, longitudinal_pitch : float or array_like
+        S_T and S_L [m] (only their ratio matters, staggered).
+
+    Returns
+    -------
+    list of (float, numpy.ndarray)
+        ``(boundary Re_D,max, upper branch / lower branch - 1)`` at the boundary [-]; e.g.
+        staggered at 500: +0.27.
+    """
+    _check_arrangement(arrangement)
+    bounds, cs, ms = _zukauskas_constants(arrangement, transverse_pitch, longitudinal_pitch)
+    return [
+        (b, np.asarray(cs[i + 1] * b ** ms[i + 1] / (cs[i] * b ** ms[i]) - 1.0))
+        for i, b in enumerate(bounds)
+    ]
+
+
+def _zukauskas_joined(re, arrangement, transverse_pitch, longitudinal_pitch):
+    """Table F1 with its branches joined continuously on the lower side (see the caller)."""
+    bounds, cs, ms = _zukauskas_constants(arrangement, transverse_pitch, longitudinal_pitch)
+    table = _zukauskas_table(re, arrangement, transverse_pitch, longitudinal_pitch)
+    joined = table
+    log_f = np.log(ZUKAUSKAS_BLEND_FACTOR)
+    for i, b in enumerate(bounds):
+        lower = cs[i] * re ** ms[i]
+        upper = cs[i + 1] * re ** ms[i + 1]
+        steps_up = cs[i + 1] * b ** ms[i + 1] > cs[i] * b ** ms[i]
+        start = np.where(steps_up, b, b / ZUKAUSKAS_BLEND_FACTOR)
+        inside = (re >= start) & (re < start * ZUKAUSKAS_BLEND_FACTOR)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            w = np.clip(np.log(re / start) / log_f, 0.0, 1.0)
+            geometric = lower ** (1.0 - w) * upper**w
+        joined = np.where(inside, np.minimum(joined, geometric), joined)
+    return joined
+
+
 def nusselt_pin_bank_zukauskas(
     reynolds_max,
     prandtl,
@@ -1043,6 +1178,7 @@ def nusselt_pin_bank_zukauskas(
     transverse_pitch,
     longitudinal_pitch,
     surface_prandtl=None,
+    join_branches=True,
 ):
     r"""Mean Nusselt number of a pin (tube) bank in crossflow, Zukauskas.
 
@@ -1063,6 +1199,9 @@ def nusselt_pin_bank_zukauskas(
     surface_prandtl : float or array_like, optional
         Prandtl number at the surface temperature; None (default) omits the factor
         ``(Pr/Pr_s)^(1/4)`` (it is within 1 % of 1 for air) [-].
+    join_branches : bool, optional
+        True (default): the published branches are joined continuously, on the lower side
+        (see Notes). False: the table as published, with its steps.
 
     Returns
     -------
@@ -1086,39 +1225,163 @@ def nusselt_pin_bank_zukauskas(
     staggered     < 500             1.04                      0.4
     staggered     500 - 1000        0.71                      0.5
     staggered     1000 - 2e5        0.35 (S_T/S_L)^0.2        0.6
+                                    (0.40 for S_T/S_L > 2)
     staggered     >= 2e5            0.031 (S_T/S_L)^0.2       0.8
     ============  ================  ========================  =====
 
     Confirmed against the code of ``ht.Nu_Zukauskas_Bejan`` (ht 1.2.0; whose in-line
     100-1000 branch has the exponent misprinted as 0.05 in code, 0.5 in its docstring) and, above
-    1000, against Incropera et al. 6th ed. Table 7.5. The published branches are not
-    continuous (e.g. in-line at 100 the value drops 9 %, staggered at 500 it rises 27 %).
-    Validity: 1 <= Re_D,max <= 2e6, 0.7 <= Pr <= 500. Row correction:
-    :func:`row_correction_zukauskas`. Tube-bank data assume long tubes; short pins deviate
-    (quote +-20-25 %, common practice, no source).
+    1000, against Incropera et al. 6th ed. Table 7.5, which also gives the staggered
+    ``S_T/S_L > 2`` constant 0.40 (equal to ``0.35 x 2^0.2 = 0.402`` at the ratio 2, so the
+    two agree where they meet). Validity: 1 <= Re_D,max <= 2e6, 0.7 <= Pr <= 500. Row
+    correction: :func:`row_correction_zukauskas`. Tube-bank data assume long tubes; short pins
+    deviate (quote +-20-25 %, common practice, no source).
+
+    **Joining the branches.** The published branches are not continuous: in-line the value
+    drops 9 % at 100 and rises 27 % at 1000; staggered it rises 27 % at 500 (the other steps
+    are a few per cent; :func:`zukauskas_branch_steps` gives them for a design). A design just
+    above a rising step would get 27 % more h than one just below. finkit joins each pair of
+    neighbouring branches by a geometric (log-linear in Re) blend over a band of a factor
+    :data:`ZUKAUSKAS_BLEND_FACTOR` = 1.4 in Re_D,max **on the side where the table is higher**
+    (above a rising step, below a falling one), and keeps the lower of the blend and the table
+    there. The result is continuous, never above the published table (conservative) and equal
+    to it outside the bands. Inside a band its local slope ``d ln Nu / d ln Re`` is at most
+    ``m_upper + ln(ratio of the branches at the far end of the band)/ln 1.4``: 1.31 across the
+    staggered step at 500 (+27 %), 1.48 across the in-line step at 1000 (+27 %), against
+    0.4-0.63 outside; a sweep with Re_D,max points 2 % apart therefore changes h by at most
+    about 3 % from one point to the next. This is finkit's choice (no published
+    source prescribes a join); the size of the band is a judgement: wide enough that a sweep
+    sees no jump, narrow enough (no band overlaps another) that the published values hold
+    almost everywhere.
 
     References
     ----------
     .. [1] Zukauskas, A., "Convective heat transfer in cross flow", in Kakac, Shah & Aung (eds.),
        Handbook of Single-Phase Convective Heat Transfer, Wiley, 1987.
     .. [2] Bejan, A., Convection Heat Transfer, 4th ed., Wiley, 2013.
+    .. [3] Incropera, F.P., DeWitt, D.P., Bergman, T.L., Lavine, A.S., Fundamentals of Heat and
+       Mass Transfer, 6th ed., Wiley, 2007, Table 7.5.
     """
     _check_arrangement(arrangement)
     re = _as_float(reynolds_max)
     pr = _as_float(prandtl)
-    if arrangement == "inline":
-        conditions = [re < 100.0, re < 1000.0, re < 2.0e5]
-        c = np.select(conditions, [0.9, 0.52, 0.27], 0.033)
-        m = np.select(conditions, [0.4, 0.5, 0.63], 0.8)
+    if join_branches:
+        base = _zukauskas_joined(re, arrangement, transverse_pitch, longitudinal_pitch)
     else:
-        ratio = (_as_float(transverse_pitch) / _as_float(longitudinal_pitch)) ** 0.2
-        conditions = [re < 500.0, re < 1000.0, re < 2.0e5]
-        c = np.select(conditions, [1.04, 0.71, 0.35 * ratio], 0.031 * ratio)
-        m = np.select(conditions, [0.4, 0.5, 0.6], 0.8)
-    nu = c * row_correction_zukauskas(row_count, arrangement) * re**m * pr**0.36
+        base = _zukauskas_table(re, arrangement, transverse_pitch, longitudinal_pitch)
+    nu = base * row_correction_zukauskas(row_count, arrangement) * pr**0.36
     if surface_prandtl is not None:
         nu = nu * (pr / _as_float(surface_prandtl)) ** 0.25
     return nu
+
+
+def pin_bank_void_fraction(pin_diameter, transverse_pitch, longitudinal_pitch):
+    """Void fraction psi of a pin (tube) bank as used by Gnielinski [-].
+
+    ``psi = 1 - pi/(4a)`` for ``b >= 1``, ``1 - pi/(4ab)`` for ``b < 1``, with
+    ``a = S_T/D``, ``b = S_L/D`` (VDI Heat Atlas ch. G7).
+    """
+    a = _as_float(transverse_pitch) / _as_float(pin_diameter)
+    b = _as_float(longitudinal_pitch) / _as_float(pin_diameter)
+    return np.where(b >= 1.0, 1.0 - np.pi / (4.0 * a), 1.0 - np.pi / (4.0 * a * b))
+
+
+def nusselt_pin_bank_gnielinski(
+    approach_velocity,
+    pin_diameter,
+    transverse_pitch,
+    longitudinal_pitch,
+    row_count,
+    arrangement,
+    density,
+    dynamic_viscosity,
+    prandtl,
+):
+    r"""Mean Nusselt number of a pin (tube) bank in crossflow, Gnielinski (VDI Heat Atlas).
+
+    Parameters
+    ----------
+    approach_velocity : float or array_like
+        Velocity upstream of the bank, on the frontal area (``w_0``) [m s⁻¹].
+    pin_diameter : float or array_like
+        Pin diameter D [m].
+    transverse_pitch, longitudinal_pitch : float or array_like
+        S_T and S_L [m].
+    row_count : float or array_like
+        Rows along the flow n [-].
+    arrangement : str
+        ``"inline"`` or ``"staggered"`` [-].
+    density, dynamic_viscosity : float or array_like
+        Air density [kg m⁻³] and dynamic viscosity [Pa s] at the mean bulk temperature.
+    prandtl : float or array_like
+        Prandtl number at the mean bulk temperature [-].
+
+    Returns
+    -------
+    tuple of numpy.ndarray
+        ``(Nu_D, Re_psi_l)``: the Nusselt number on the pin diameter ``h D / k`` (h referred to
+        the bulk air, like Zukauskas) and Gnielinski's Reynolds number [-].
+
+    Notes
+    -----
+    Gnielinski's method treats each pin as a body with the streamed length ``l = pi D / 2``
+    and the velocity in the void ``w_0 / psi``::
+
+        Re_psi,l = w_0 l / (psi nu),   psi = 1 - pi/(4a)  (b >= 1),  1 - pi/(4ab)  (b < 1)
+        Nu_lam  = 0.664 Re^(1/2) Pr^(1/3)
+        Nu_turb = 0.037 Re^0.8 Pr / (1 + 2.443 Re^(-0.1) (Pr^(2/3) - 1))
+        Nu_l,0  = 0.3 + sqrt(Nu_lam^2 + Nu_turb^2)
+        f_A     = 1 + 0.7/psi^1.5 (b/a - 0.3)/(b/a + 0.7)^2       (in-line)
+                = 1 + 2/(3 b)                                      (staggered)
+        Nu_l    = f_A Nu_l,0                  (n >= 10 rows)
+                = (1 + (n - 1) f_A)/n Nu_l,0   (n < 10)
+
+    with ``a = S_T/D``, ``b = S_L/D`` and ``Nu_D = Nu_l D / l``. Validity:
+    ``10 < Re_psi,l < 1e6``, ``0.6 < Pr < 1e3``. The formula is continuous in Re (no branches),
+    which is why it is the second pin-bank correlation: it shows the model-form spread
+    against Zukauskas. Cross-checked in the tests against ``ht.Nu_HEDH_tube_bank`` (ht 1.2.0,
+    the same method from the HEDH), which takes the Reynolds number on the streamed length
+    when called with it, and against the Modelica FluidDissipation implementation's
+    definitions (``L = pi/2 d``, ``Re = w_0 L/(psi nu)``).
+
+    References
+    ----------
+    .. [1] Gnielinski, V., "Heat transfer in cross-flow around single rows of tubes and
+       through tube bundles", VDI Heat Atlas, 2nd ed., Springer, 2010, ch. G7.
+    .. [2] Schlünder, E.U. (ed.), Heat Exchanger Design Handbook, Hemisphere, 1983/1987
+       (section 2.5.3, Gnielinski).
+    """
+    _check_arrangement(arrangement)
+    d = _as_float(pin_diameter)
+    a = _as_float(transverse_pitch) / d
+    b = _as_float(longitudinal_pitch) / d
+    psi = pin_bank_void_fraction(d, transverse_pitch, longitudinal_pitch)
+    pr = _as_float(prandtl)
+    streamed = 0.5 * np.pi * d
+    re = (
+        _as_float(approach_velocity)
+        * streamed
+        * _as_float(density)
+        / (psi * _as_float(dynamic_viscosity))
+    )
+    nu_lam = 0.664 * np.sqrt(re) * np.cbrt(pr)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        nu_turb = np.where(
+            re > 0,
+            0.037
+            * re**0.8
+            * pr
+            / (1.0 + 2.443 * np.where(re > 0, re, 1.0) ** -0.1 * (pr ** (2 / 3) - 1.0)),
+            0.0,
+        )
+    nu_0 = 0.3 + np.sqrt(nu_lam**2 + nu_turb**2)
+    if arrangement == "inline":
+        f_a = 1.0 + 0.7 / psi**1.5 * (b / a - 0.3) / (b / a + 0.7) ** 2
+    else:
+        f_a = 1.0 + 2.0 / (3.0 * b)
+    n = _as_float(row_count)
+    rows = np.where(n >= 10.0, f_a, (1.0 + (n - 1.0) * f_a) / n)
+    return rows * nu_0 * d / streamed, re
 
 
 class PinBankPressureDrop(NamedTuple):
@@ -1297,7 +1560,7 @@ class PinBankFlow(NamedTuple):
     max_velocity: np.ndarray
     #: ``Re_D,max = rho V_max D / mu`` [-].
     reynolds_max: np.ndarray
-    #: Zukauskas ``Nu_D`` [-].
+    #: ``Nu_D`` of the model used (``method``) [-].
     nusselt: np.ndarray
     #: Pin heat transfer coefficient, bulk-referenced [W m⁻² K⁻¹].
     heat_transfer_coefficient: np.ndarray
@@ -1326,6 +1589,16 @@ class PinBankFlow(NamedTuple):
     prandtl: np.ndarray
     #: ``"inline"`` or ``"staggered"``.
     arrangement: str
+    #: Zukauskas ``Nu_D``, branches joined (:func:`nusselt_pin_bank_zukauskas`) [-].
+    nusselt_zukauskas: np.ndarray
+    #: Gnielinski ``Nu_D`` (:func:`nusselt_pin_bank_gnielinski`) [-].
+    nusselt_gnielinski: np.ndarray
+    #: Gnielinski's ``Re_psi,l`` [-].
+    reynolds_void: np.ndarray
+    #: ``H/D`` of the pins [-].
+    aspect_ratio: np.ndarray
+    #: Heat-transfer model, one of :data:`PIN_BANK_METHODS`.
+    method: str
 
 
 def pin_fin_bank_flow(
@@ -1344,6 +1617,7 @@ def pin_fin_bank_flow(
     base_length=None,
     surface_prandtl=None,
     pressure_drop_method="gaddis_gnielinski",
+    method="lower",
 ):
     r"""Velocities, h (pins and base) and pressure drop of a pin-fin heat sink.
 
@@ -1379,6 +1653,10 @@ def pin_fin_bank_flow(
         Prandtl number at the surface for the Zukauskas factor; None = factor 1 [-].
     pressure_drop_method : str, optional
         One of :data:`PIN_BANK_PRESSURE_DROP_METHODS` [-].
+    method : str, optional
+        Heat-transfer model, one of :data:`PIN_BANK_METHODS` [-]: ``"lower"`` (default, the
+        lower h of Zukauskas and Gnielinski for each design, conservative), ``"zukauskas"``
+        or ``"gnielinski"``.
 
     Returns
     -------
@@ -1389,7 +1667,10 @@ def pin_fin_bank_flow(
     -----
     ``V_app = Q / (W H)`` on the pin-region frontal area; ``V_max`` from
     :func:`pin_bank_max_velocity`; ``h = Nu_D k / D`` with :func:`nusselt_pin_bank_zukauskas`,
-    referred to the local bulk air temperature (methods.md f1, j): use ε-NTU. The exposed base
+    referred to the local bulk air temperature (methods.md f1, j): use ε-NTU; or
+    :func:`nusselt_pin_bank_gnielinski` (also bulk-referenced), or the lower of the two. The
+    two are the accepted pin-bank correlations finkit has; neither was fitted to short pins on
+    a heated base, so the lower one is the default (finkit's conservative choice). The exposed base
     gets ``h_b = 0.664 Re_L^(1/2) Pr^(1/3) k / L`` with ``Re_L = rho V_app L / mu``
     (common practice, no source). Pressure drop: :func:`pressure_drop_pin_bank_gaddis_gnielinski`.
 
@@ -1402,6 +1683,7 @@ def pin_fin_bank_flow(
     """
     _check_arrangement(arrangement)
     _check_choice("pressure_drop_method", pressure_drop_method, PIN_BANK_PRESSURE_DROP_METHODS)
+    _check_choice("method", method, PIN_BANK_METHODS)
     q_vol = _as_float(volume_flow)
     if np.any(q_vol < 0):
         raise InputError(f"volume_flow = {q_vol.min():.6g} m³/s is not allowed; it must be >= 0")
@@ -1423,7 +1705,11 @@ def pin_fin_bank_flow(
     approach = q_vol / (_as_float(base_width) * pin_height)
     v_max = pin_bank_max_velocity(approach, d, st, sl, arrangement)
     re_max = rho * v_max * d / mu
-    nu = nusselt_pin_bank_zukauskas(re_max, pr, n_rows, arrangement, st, sl, surface_prandtl)
+    nu_z = nusselt_pin_bank_zukauskas(re_max, pr, n_rows, arrangement, st, sl, surface_prandtl)
+    nu_g, re_void = nusselt_pin_bank_gnielinski(
+        approach, d, st, sl, n_rows, arrangement, rho, mu, pr
+    )
+    nu = {"zukauskas": nu_z, "gnielinski": nu_g}.get(method, np.minimum(nu_z, nu_g))
     h = nu * k_air / d
     length = n_rows * sl if base_length is None else _as_float(base_length)
     re_l = rho * approach * length / mu
@@ -1454,6 +1740,11 @@ def pin_fin_bank_flow(
         row_count=full(n_rows),
         prandtl=full(pr),
         arrangement=arrangement,
+        nusselt_zukauskas=full(nu_z),
+        nusselt_gnielinski=full(nu_g),
+        reynolds_void=full(re_void),
+        aspect_ratio=full(_as_float(pin_height) / d),
+        method=method,
     )
 
 
@@ -1464,51 +1755,12 @@ def _masked(values, mask):
     return np.where(mask, _as_float(values), np.nan)
 
 
-#: Reynolds numbers at which a published piecewise correlation changes its constants:
-#: Zukauskas' table (Bejan 2013 / ht docs, Table F1 of methods.md f1) by arrangement, and the
-#: switch from the Teertstra composite to the VDI plane-gap correlation on Re_2b.
+#: Reynolds numbers at which Zukauskas' table (Bejan 2013 / ht docs, Table F1 of methods.md
+#: f1) changes its constants, by arrangement.
 ZUKAUSKAS_BRANCHES = {"inline": (100.0, 1000.0, 2.0e5), "staggered": (500.0, 1000.0, 2.0e5)}
-CHANNEL_SWITCH_REYNOLDS = LAMINAR_LIMIT_REYNOLDS
 
 #: Relative distance from a branch boundary within which a result is flagged.
 BRANCH_BAND = 0.1
-
-
-def branch_warnings(method: str, quantity: str, values, boundaries, what: str) -> list[str]:
-    """A warning when a result lies near a boundary where a correlation changes its branch.
-
-    Results on either side of such a boundary differ by a step that belongs to the published
-    correlation, not to the design; a reviewer should read the result with that step in mind.
-
-    Parameters
-    ----------
-    method, quantity : str
-        Names as printed, e.g. ``"Zukauskas pin bank"``, ``"Re_D,max"`` [-].
-    values : array_like
-        The quantity for each design [-].
-    boundaries : sequence of float
-        Branch boundaries of the correlation [-].
-    what : str
-        What changes at the boundary, for the message [-].
-
-    Returns
-    -------
-    list of str
-        One message per boundary that a value lies within ``BRANCH_BAND`` of.
-    """
-    v = np.asarray(values, dtype=float)
-    v = v[np.isfinite(v)]
-    out = []
-    for b in boundaries:
-        near = v[np.abs(v / b - 1.0) <= BRANCH_BAND]
-        if near.size:
-            out.append(
-                f"{method}: {quantity} = {near.min():.4g}"
-                + (f" to {near.max():.4g}" if near.max() != near.min() else "")
-                + f" is within {BRANCH_BAND:.0%} of {b:.4g}, where {what}; the result may step "
-                "there by several per cent (a feature of the published correlation)"
-            )
-    return out
 
 
 def plate_fin_flow_warnings(flow: PlateChannelFlow) -> list[str]:
@@ -1533,14 +1785,112 @@ def plate_fin_flow_warnings(flow: PlateChannelFlow) -> list[str]:
     out += check_range(
         PLATE_CHANNEL_FRICTION_REYNOLDS, _masked(re_dh, re_dh < TURBULENT_LIMIT_REYNOLDS)
     )
-    if flow.method == "teertstra":
-        out += branch_warnings(
-            "plate channel",
-            "Re_2b",
-            2.0 * _as_float(flow.reynolds_spacing),
-            (CHANNEL_SWITCH_REYNOLDS,),
-            "h changes from the Teertstra composite (inlet-referenced) to the VDI plane-gap "
-            "correlation (bulk-referenced)",
+    out += plate_channel_transition_warnings(flow)
+    return out
+
+
+#: Share of ``Re_Dh = 2300`` from which a plate channel counts as near transition [-]
+#: (common practice, no source).
+NEAR_TRANSITION_SHARE = 0.8
+#: Flat-plate Reynolds number on the channel length below which developing boundary layers
+#: are taken as laminar (Incropera et al. 6th ed., Sec. 7.2: transition at 5e5 for a smooth
+#: plate without disturbances).
+FLAT_PLATE_TRANSITION_REYNOLDS = 5.0e5
+
+
+def plate_channel_transition_warnings(flow: PlateChannelFlow) -> list[str]:
+    """One message when a plate channel's flow is near or above transition (``Re_Dh``).
+
+    The message says whether the channel is short enough for its boundary layers to stay
+    laminar and developing (``L`` below the laminar entry length and ``Re_L`` below
+    :data:`FLAT_PLATE_TRANSITION_REYNOLDS`), and that the laminar-developing and transitional
+    models bracket h there.
+
+    Parameters
+    ----------
+    flow : PlateChannelFlow
+        Result of :func:`plate_fin_channel_flow` [-].
+
+    Returns
+    -------
+    list of str
+        Empty below ``NEAR_TRANSITION_SHARE * 2300``; else one line.
+    """
+    re_dh = _as_float(flow.reynolds_hydraulic)
+    near = np.isfinite(re_dh) & (re_dh >= NEAR_TRANSITION_SHARE * LAMINAR_LIMIT_REYNOLDS)
+    if not np.any(near):
+        return []
+    re_l = np.broadcast_to(_as_float(flow.reynolds_length), re_dh.shape)[near]
+    entry = np.broadcast_to(_as_float(flow.entry_length), re_dh.shape)[near]
+    length = np.broadcast_to(_as_float(flow.channel_length), re_dh.shape)[near]
+    values = re_dh[near]
+    shown = f"{values.min():.4g}" + (
+        f" to {values.max():.4g}" if values.max() != values.min() else ""
+    )
+    short = np.all((length < entry) & (re_l < FLAT_PLATE_TRANSITION_REYNOLDS))
+    where = (
+        f"the channel (L = {1e3 * length.max():.4g} mm) is shorter than the laminar entry "
+        f"length (0.05 Re_Dh D_h = {1e3 * entry.min():.4g} mm) and Re_L = {re_l.max():.3g} is "
+        "below the flat-plate transition (about 5e5), so the boundary layers are still "
+        "developing and laminar unless an upstream fan or grille trips them"
+        if short
+        else "the channel is long enough (or Re_L high enough) for the flow to be transitional"
+    )
+    return [
+        f"plate channel: Re_Dh = {shown} is near or above 2300, where channel flow may become "
+        f"transitional; {where}. The laminar-developing (Teertstra) and transitional (VDI) "
+        "models bracket h here: finkit uses the lower by default and the correlation spread "
+        "shows both"
+    ]
+
+
+def zukauskas_join_warnings(flow: PinBankFlow) -> list[str]:
+    """Where a design sits at a step of the published Zukauskas table, say how big the step
+    is for this design and how far finkit's joined value lies below the table.
+
+    Parameters
+    ----------
+    flow : PinBankFlow
+        Result of :func:`pin_fin_bank_flow` [-].
+
+    Returns
+    -------
+    list of str
+        One message per boundary with a design inside its joining band or within
+        :data:`BRANCH_BAND` of the boundary.
+    """
+    re = _as_float(flow.reynolds_max)
+    st, sl = flow.transverse_pitch_ratio, flow.longitudinal_pitch_ratio
+    arrangement = str(flow.arrangement)
+    joined = _zukauskas_joined(re, arrangement, st, sl)
+    table = _zukauskas_table(re, arrangement, st, sl)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        below = np.where(table > 0, 1.0 - joined / table, 0.0)
+    out = []
+    f = ZUKAUSKAS_BLEND_FACTOR
+    for b, step in zukauskas_branch_steps(arrangement, st, sl):
+        step = np.broadcast_to(step, re.shape)
+        near = (
+            np.isfinite(re) & (re >= b / f / (1 + BRANCH_BAND)) & (re <= b * f * (1 + BRANCH_BAND))
+        )
+        near &= (np.abs(re / b - 1.0) <= BRANCH_BAND) | (below > 1e-12)
+        if not np.any(near):
+            continue
+        values, steps, gaps = re[near], step[near], below[near]
+        shown = f"{values.min():.4g}" + (
+            f" to {values.max():.4g}" if values.max() != values.min() else ""
+        )
+        step_text = f"{100 * steps.min():+.0f} %" + (
+            f" to {100 * steps.max():+.0f} %" if steps.max() - steps.min() > 5e-3 else ""
+        )
+        rising = bool(np.all(steps > 0))
+        band = f"{b:.4g} to {b * f:.4g}" if rising else f"{b / f:.4g} to {b:.4g}"
+        out.append(
+            f"Zukauskas pin bank: Re_D,max = {shown} is near {b:.4g}, where the published table "
+            f"steps by {step_text} (its constants C and m change); finkit joins the two branches "
+            f"over Re_D,max {band} on the lower side, so h here is "
+            f"{100 * gaps.max():.0f} % below the table value at most (conservative; the table "
+            "itself would give a design on the other side of the step that much more h)"
         )
     return out
 
@@ -1559,15 +1909,17 @@ def pin_fin_flow_warnings(flow: PinBankFlow) -> list[str]:
         Zukauskas ``Re_D,max`` and ``Pr``; Gaddis & Gnielinski ``Re``, row count and pitch
         ratios for the arrangement; flat-plate ``Re_L`` of the base.
     """
-    out = check_range(ZUKAUSKAS_REYNOLDS, flow.reynolds_max)
-    out += check_range(ZUKAUSKAS_PRANDTL, flow.prandtl)
-    out += branch_warnings(
-        "Zukauskas pin bank",
-        "Re_D,max",
-        flow.reynolds_max,
-        ZUKAUSKAS_BRANCHES[str(flow.arrangement)],
-        "the tabulated constants C and m change",
-    )
+    out = []
+    if flow.method != "gnielinski":
+        out += check_range(ZUKAUSKAS_REYNOLDS, flow.reynolds_max)
+        out += check_range(ZUKAUSKAS_PRANDTL, flow.prandtl)
+        out += zukauskas_join_warnings(flow)
+    if flow.method != "zukauskas":
+        out += check_range(GNIELINSKI_BANK_REYNOLDS, flow.reynolds_void)
+        out += check_range(GNIELINSKI_BANK_PRANDTL, flow.prandtl)
+    out += check_range(PIN_ASPECT_RATIO, flow.aspect_ratio)
+    out += check_range(ZUKAUSKAS_TRANSVERSE_RATIO, flow.transverse_pitch_ratio)
+    out += check_range(ZUKAUSKAS_LONGITUDINAL_RATIO, flow.longitudinal_pitch_ratio)
     out += check_range(GADDIS_GNIELINSKI_REYNOLDS, flow.reynolds_max)
     out += check_range(GADDIS_GNIELINSKI_ROW_COUNT, flow.row_count)
     if flow.arrangement == "inline":
