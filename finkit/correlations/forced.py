@@ -1844,6 +1844,12 @@ def plate_channel_transition_warnings(flow: PlateChannelFlow) -> list[str]:
     ]
 
 
+#: Smallest published step of the Zukauskas table worth a warning [-]: smaller steps (the
+#: staggered 1000 and both 2e5 boundaries, 2-3 %) change h less than the correlation's own
+#: scatter (common practice, no source).
+JOIN_WARNING_STEP = 0.05
+
+
 def zukauskas_join_warnings(flow: PinBankFlow) -> list[str]:
     """Where a design sits at a step of the published Zukauskas table, say how big the step
     is for this design and how far finkit's joined value lies below the table.
@@ -1856,8 +1862,8 @@ def zukauskas_join_warnings(flow: PinBankFlow) -> list[str]:
     Returns
     -------
     list of str
-        One message per boundary with a design inside its joining band or within
-        :data:`BRANCH_BAND` of the boundary.
+        One message per boundary whose step is at least :data:`JOIN_WARNING_STEP`, with a
+        design inside its joining band or within :data:`BRANCH_BAND` of the boundary.
     """
     re = _as_float(flow.reynolds_max)
     st, sl = flow.transverse_pitch_ratio, flow.longitudinal_pitch_ratio
@@ -1870,6 +1876,8 @@ def zukauskas_join_warnings(flow: PinBankFlow) -> list[str]:
     f = ZUKAUSKAS_BLEND_FACTOR
     for b, step in zukauskas_branch_steps(arrangement, st, sl):
         step = np.broadcast_to(step, re.shape)
+        if np.all(np.abs(step) < JOIN_WARNING_STEP):
+            continue
         near = (
             np.isfinite(re) & (re >= b / f / (1 + BRANCH_BAND)) & (re <= b * f * (1 + BRANCH_BAND))
         )
