@@ -106,6 +106,8 @@ INDEX_HTML = "index.html"
 SUMMARY_CSV = "summary.csv"
 SUMMARY_JSON = "summary.json"
 _RUN_DIR = ".finkit-batch-run"
+#: Scratch folders of ``notes.render_note`` (``.<case_id>.<8 random>.partial``).
+_SCRATCH_NAME = re.compile(r"\.[A-Za-z0-9][A-Za-z0-9._-]*\.[a-z0-9_]{8}\.partial")
 _LOCK_FILE = ".finkit-batch.lock"
 
 
@@ -351,6 +353,15 @@ def _parse_cell(text: str) -> tuple[bool, Any]:
     return True, number
 
 
+def _is_text_path(path: str) -> bool:
+    """True when the last field of a dotted column path is a text field of the case."""
+    from finkit.case import text_keys
+
+    last = _split_path(path)
+    last = [p for p in last if isinstance(p, str)][-1]
+    return last in text_keys()
+
+
 def _row_label(row: int, variant: str) -> str:
     return f"row {row} (variant {variant!r})" if variant else f"row {row}"
 
@@ -434,6 +445,8 @@ def _read_csv(path: Path) -> list[VariantRow]:
             path_, unit = column
             try:
                 given, value = _parse_cell(text)
+                if given and not isinstance(value, str) and _is_text_path(path_) and text.strip():
+                    value = text.strip()  # revision 1.10 stays "1.10", not 1.1
             except ValueError as exc:
                 errors.append(f"{_row_label(line_no, variant)}, column {path_}: {exc}")
                 continue
@@ -899,12 +912,44 @@ def _one_line(exc: Any, limit: int = 300) -> str:
     return line if len(line) <= limit else line[: limit - 1] + "…"
 
 
+#: Seconds between two looks of a child at its parent (:func:`_die_with_parent`).
+PARENT_WATCH_INTERVAL = 1.0
+
+
+def _die_with_parent(parent_pid: int) -> None:
+    """Kill this child's whole process group (the child and its notebook kernel) as soon as
+    the batch that started it is gone.
+
+    Each child runs in its own process group so that the parent can stop it and its kernel
+    together at a time limit; the same separation means a killed parent would leave it
+    running and writing into the output folder. A daemon thread looks at the parent's pid
+    every :data:`PARENT_WATCH_INTERVAL` seconds; when the child has been re-parented (the
+    batch died, however), it sends SIGKILL to its own group. Only its own group: the child
+    is the leader of that group, so nothing of the user's is touched.
+    """
+    import threading
+
+    def watch() -> None:
+        while True:
+            time.sleep(PARENT_WATCH_INTERVAL)
+            if os.getppid() != parent_pid:
+                try:
+                    os.killpg(os.getpgid(0), signal.SIGKILL)
+                finally:
+                    os._exit(1)
+
+    threading.Thread(target=watch, name="finkit-parent-watch", daemon=True).start()
+
+
 def _child_main(task: dict, result_path: str, log_path: str) -> None:
     """Entry of a forked child: own process group, output to a log, outcome to a JSON file."""
+    parent = os.getppid()
     try:
         os.setpgid(0, 0)
     except OSError:
         pass
+    if os.getpgid(0) == os.getpid():
+        _die_with_parent(parent)
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     fd = os.open(log_path, os.O_WRONLY | os.O_CREAT | os.O_APPEND, 0o644)
     os.dup2(fd, 1)
@@ -1221,6 +1266,21 @@ def _rescue_partial_notebook(task: Mapping[str, Any], what: str) -> str:
     return message
 
 
+def _mark_earlier_note_stale(out: Path, variant) -> None:
+    """A variant whose row is now invalid keeps no note that looks current: an earlier note in
+    its folder is renamed stale with the reason (``notes.mark_stale``)."""
+    if not isinstance(variant.variant, str) or not variant.variant.strip():
+        return
+    try:
+        folder = notes.case_folder(out, variant.variant)
+    except InputError:
+        return
+    if folder.is_dir():
+        notes.mark_stale(
+            folder, "the variant's row is now invalid: " + "; ".join(variant.errors)[:500]
+        )
+
+
 def _run_jobs(
     tasks: Sequence[dict],
     *,
@@ -1410,8 +1470,9 @@ def run_batch(
 
     The batch folder is locked while the batch runs: a second batch on the same folder is
     refused with one line (it would otherwise delete the first one's run folder and could have
-    a later re-run reuse a note of the wrong variant). A run folder left by a killed batch is
-    removed first. ``options`` are those of :func:`_run_batch_locked`, documented there.
+    a later re-run reuse a note of the wrong variant). A run folder and note scratch folders
+    left by a killed batch are removed first (the lock proves no batch is using them).
+    ``options`` are those of :func:`_run_batch_locked`, documented there.
     """
     import fcntl
 
@@ -1430,6 +1491,9 @@ def run_batch(
                 "to finish or give another folder"
             ) from None
         shutil.rmtree(out / _RUN_DIR, ignore_errors=True)  # left by a killed batch
+        for scratch in out.glob(".*.partial"):  # notes a killed batch was rendering
+            if _SCRATCH_NAME.fullmatch(scratch.name) and scratch.is_dir():
+                shutil.rmtree(scratch, ignore_errors=True)
         return _run_batch_locked(base, variants, out_dir, **options)
     finally:
         handle.close()
@@ -1534,6 +1598,7 @@ def _run_batch_locked(
                 error_kind="input",
                 error="; ".join(variant.errors),
             )
+            _mark_earlier_note_stale(out, variant)
             continue
         key = variant_key(
             variant.validated, template_file, entered=variant.case, show_code=show_code, paper=paper
@@ -2259,6 +2324,8 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--run-task", nargs=2, metavar=("TASK", "RESULT"), required=True)
     args = parser.parse_args(argv)
     task = json.loads(Path(args.run_task[0]).read_text(encoding="utf-8"))
+    if os.getpgid(0) == os.getpid():  # started in its own session by the batch
+        _die_with_parent(os.getppid())
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     os.environ.setdefault("PYDEVD_DISABLE_FILE_VALIDATION", "1")
     outcome = _render_child(task)

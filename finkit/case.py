@@ -777,8 +777,62 @@ class _UniqueKeyLoader(yaml.SafeLoader):
             self._depth -= 1
 
 
+def text_keys() -> frozenset[str]:
+    """Keys whose values are text in the case models (``Text`` fields, and ``case_id``).
+
+    The case loader and the variant-table reader keep a plain value under one of these keys as
+    the text the user typed, so that a revision ``1.10`` is not read as the number 1.1.
+    """
+    global _TEXT_KEYS
+    if _TEXT_KEYS is None:
+        text_validator = get_args(Text)[1].func
+        found, seen = {"case_id"}, set()
+
+        def walk(model):
+            if model in seen:
+                return
+            seen.add(model)
+            for name, info in model.model_fields.items():
+                marks = list(info.metadata)
+                stack = [info.annotation]
+                while stack:
+                    annotation = stack.pop()
+                    if isinstance(annotation, type) and issubclass(annotation, BaseModel):
+                        walk(annotation)
+                    if get_origin(annotation) is Annotated:
+                        marks += get_args(annotation)[1:]
+                    stack.extend(get_args(annotation))
+                if any(getattr(m, "func", None) is text_validator for m in marks):
+                    found.add(info.alias or name)
+
+        for model in (HeatSinkCase, SingleFinCase):
+            walk(model)
+        _TEXT_KEYS = frozenset(found)
+    return _TEXT_KEYS
+
+
+_TEXT_KEYS: frozenset[str] | None = None
+
+#: YAML's implicit tags that would turn a text field's value into something else: revision
+#: ``1.10`` into 1.1, ``010`` into 8, ``NO`` into false, ``2024-05-01`` into a date.
+_RETYPED_TAGS = frozenset(
+    f"tag:yaml.org,2002:{t}" for t in ("int", "float", "bool", "timestamp", "null")
+)
+
+
 def _construct_mapping(loader, node, deep=False):
     seen = {}
+    for key_node, value_node in node.value:
+        # A plain scalar under a text key stays the text the user typed.
+        if (
+            isinstance(value_node, yaml.ScalarNode)
+            and value_node.style is None
+            and value_node.tag in _RETYPED_TAGS
+            and value_node.value != ""
+            and isinstance(key_node, yaml.ScalarNode)
+            and key_node.value in text_keys()
+        ):
+            value_node.tag = "tag:yaml.org,2002:str"
     for key_node, _ in node.value:
         key = loader.construct_object(key_node, deep=deep)
         if not isinstance(key, str | int | float | bool) and key is not None:

@@ -639,6 +639,7 @@ def run_case(case) -> CaseResult:
         warnings.append(NO_SCENARIO_WARNING_NATURAL if is_natural else NO_SCENARIO_WARNING)
     if calibration is not None and calibration.reads_low:
         warnings.insert(0, calibration.warning)
+    warnings += sweep_notes(case, governing.inputs, governing.solution)
     return CaseResult(
         case=case,
         status=governing.status,
@@ -876,6 +877,109 @@ def sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
 
 #: Sweeps a note can draw (the same as :data:`SWEEPABLE`).
 NOTE_SWEEPS = SWEEPABLE
+
+
+def note_inlet_range(inputs: SinkInputs) -> np.ndarray:
+    """Inlet air temperatures [K] a note plots the allowable power over: from 25 K below the
+    inlet (or 30 K below the usable limit) up to the limit itself (beyond it no power is
+    allowable and the curve says nothing)."""
+    t_in = float(np.max(inputs.air.inlet_temperature))
+    usable = inputs.limit_temperature - inputs.required_margin
+    low = min(t_in - 25.0, usable - 30.0)
+    high = max(inputs.limit_temperature, t_in + 1.0)
+    return np.linspace(low, high, 57)
+
+
+def note_airflow_range(solution: SinkSolution) -> np.ndarray:
+    """Total volume flows [m³ s⁻¹] a note plots: 1/4 to 2.5 times the operating flow."""
+    q0 = float(np.max(solution.volume_flow))
+    return np.geomspace(q0 / 4.0, q0 * 2.5, 45)
+
+
+def note_h_range(solution: SinkSolution) -> np.ndarray:
+    """Heat transfer coefficients [W m⁻² K⁻¹] a note plots: 1/2 to 2 times the solved h."""
+    h0 = float(np.max(solution.heat_transfer_coefficient))
+    return np.geomspace(h0 / 2.0, h0 * 2.0, 41)
+
+
+def note_sweep_values(
+    inputs: SinkInputs, solution: SinkSolution, altitude: float, name: str
+) -> tuple[np.ndarray, float, str | None]:
+    """The values a note's sweep figure plots, the case's own value, and a clipping note.
+
+    Every range stays inside what the model accepts: the altitude range ends at the standard
+    atmosphere's top (20 km), fin thicknesses and counts at what fits on the base. A range that
+    had to be cut says so in the third item (``finkit check`` reports it as a warning, so the
+    check and the note agree on what is drawn).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The case's physics inputs (at the condition drawn). [-]
+    solution : SinkSolution
+        Its solution (operating flow and h set the airflow and h ranges). [-]
+    altitude : float
+        The case's altitude [m].
+    name : str
+        One of :data:`NOTE_SWEEPS`. [-]
+
+    Returns
+    -------
+    tuple
+        ``(values in SI, case value in SI, note or None)``.
+    """
+    from finkit.properties.atmosphere import ALTITUDE_RANGE
+
+    g = inputs.geometry
+
+    def scalar(x):
+        return float(np.max(np.asarray(x, float)))
+
+    if name == "inlet_temperature":
+        return note_inlet_range(inputs), scalar(inputs.air.inlet_temperature), None
+    if name == "airflow":
+        return note_airflow_range(solution), scalar(solution.volume_flow), None
+    if name == "heat_transfer_coefficient":
+        return note_h_range(solution), scalar(solution.heat_transfer_coefficient), None
+    if name == "power":
+        p = scalar(inputs.source.power)
+        return np.linspace(0.25 * p, 2.0 * p, 36), p, None
+    if name == "altitude":
+        z = float(altitude)
+        wanted = max(4000.0, z + 1000.0)
+        top = min(wanted, ALTITUDE_RANGE[1])
+        note = (
+            f"sweeps: the altitude figure ends at {top:.0f} m, the top of the standard "
+            f"atmosphere, not at {wanted:.0f} m"
+            if top < wanted
+            else None
+        )
+        return np.linspace(0.0, top, 41), z, note
+    if name == "fin_height":
+        h = scalar(g.fin_height if isinstance(g, PlateFinSink) else g.pin_height)
+        return np.linspace(0.4 * h, 2.0 * h, 33), h, None
+    if not isinstance(g, PlateFinSink):
+        raise InputError(f"sweeps: {name!r} applies to plate-fin sinks only")
+    if name == "fin_thickness":
+        t = scalar(g.fin_thickness)
+        fits = (scalar(g.base_width) * 0.7) / scalar(g.fin_count)
+        return np.linspace(0.4 * t, min(2.5 * t, fits), 33), t, None
+    if name == "fin_count":
+        n = int(scalar(g.fin_count))
+        most = int((scalar(g.base_width) * 0.7) // scalar(g.fin_thickness))
+        counts = np.arange(max(2, n // 3), max(n + 2, min(3 * n, most)) + 1)
+        return counts.astype(float), float(n), None
+    raise InputError(f"sweeps: got {name!r}; allowed: {', '.join(NOTE_SWEEPS)}")
+
+
+def sweep_notes(case, inputs: SinkInputs, solution: SinkSolution) -> list[str]:
+    """Clipping notes of the sweeps a case declares (see :func:`note_sweep_values`)."""
+    notes = []
+    for name in getattr(case, "sweeps", []) or []:
+        note = note_sweep_values(inputs, solution, float(case.air.altitude), name)[2]
+        if note:
+            notes.append(note)
+    return notes
 
 
 def is_fin_tip_exposed(inputs: SinkInputs) -> bool:

@@ -1931,13 +1931,9 @@ def figure_fin_profile(result) -> present.Fragment:
 
 
 def _inlet_range(result) -> np.ndarray:
-    inputs = result.inputs
-    t_in = _f(inputs.air.inlet_temperature)
-    usable = inputs.limit_temperature - inputs.required_margin
-    low = min(t_in - 25.0, usable - 30.0)
-    # Up to the limit itself: beyond it no power is allowable and the curve says nothing.
-    high = max(inputs.limit_temperature, t_in + 1.0)
-    return np.linspace(low, high, 57)
+    from finkit.model import note_inlet_range
+
+    return note_inlet_range(result.inputs)
 
 
 @_at_governing
@@ -2030,13 +2026,15 @@ def figure_allowable_vs_inlet(result) -> present.Fragment:
 
 
 def _airflow_range(result) -> np.ndarray:
-    q0 = _f(result.solution.volume_flow)
-    return np.geomspace(q0 / 4.0, q0 * 2.5, 45)
+    from finkit.model import note_airflow_range
+
+    return note_airflow_range(result.solution)
 
 
 def _h_range(result) -> np.ndarray:
-    h0 = _f(result.solution.heat_transfer_coefficient)
-    return np.geomspace(h0 / 2.0, h0 * 2.0, 41)
+    from finkit.model import note_h_range
+
+    return note_h_range(result.solution)
 
 
 @_at_governing
@@ -2375,34 +2373,13 @@ def sweep_names(result) -> list[str]:
 
 
 def _sweep_values(result, name: str) -> tuple[np.ndarray, float]:
-    """Values (SI) and the case's own value of a sweep."""
-    inputs = result.inputs
-    g = inputs.geometry
-    if name == "inlet_temperature":
-        return _inlet_range(result), _f(inputs.air.inlet_temperature)
-    if name == "airflow":
-        return _airflow_range(result), _f(result.solution.volume_flow)
-    if name == "heat_transfer_coefficient":
-        return _h_range(result), _f(result.solution.heat_transfer_coefficient)
-    if name == "power":
-        p = _f(inputs.source.power)
-        return np.linspace(0.25 * p, 2.0 * p, 36), p
-    if name == "altitude":
-        z = _f(result.case.air.altitude)
-        return np.linspace(0.0, max(4000.0, z + 1000.0), 41), z
-    if name == "fin_height":
-        h = _f(g.fin_height if _is_plate(result) else g.pin_height)
-        return np.linspace(0.4 * h, 2.0 * h, 33), h
-    if name == "fin_thickness":
-        t = _f(g.fin_thickness)
-        fits = (_f(g.base_width) * 0.7) / _f(g.fin_count)
-        return np.linspace(0.4 * t, min(2.5 * t, fits), 33), t
-    if name == "fin_count":
-        n = int(_f(g.fin_count))
-        most = int((_f(g.base_width) * 0.7) // _f(g.fin_thickness))
-        counts = np.arange(max(2, n // 3), max(n + 2, min(3 * n, most)) + 1)
-        return counts.astype(float), float(n)
-    raise ValueError(f"sweep {name!r} is not drawn by finkit.report")
+    """Values (SI) and the case's own value of a sweep (``finkit.model.note_sweep_values``)."""
+    from finkit.model import note_sweep_values
+
+    values, case_value, _ = note_sweep_values(
+        result.inputs, result.solution, float(result.case.air.altitude), name
+    )
+    return values, case_value
 
 
 @_at_governing

@@ -189,3 +189,126 @@ def test_a_failed_rerun_marks_the_earlier_note_stale(tmp_path):
     assert "do not sign it" in (folder / "STALE.txt").read_text(encoding="utf-8")
     render_note(path, out)
     assert (folder / "note.html").exists() and not (folder / "STALE.txt").exists()
+
+
+# --------------------------------------------------------------------------------------------
+# Text stays text; check says what the note will clip
+
+
+@pytest.mark.parametrize(
+    ("typed", "kept"),
+    [("1.10", "1.10"), ("010", "010"), ("NO", "NO"), ("2024-05-01", "2024-05-01"), ("1e3", "1e3")],
+)
+def test_text_fields_keep_what_was_typed(typed, kept):
+    # YAML 1.1 would read 1.10 as 1.1, 010 as 8, NO as false and 2024-05-01 as a date; a
+    # revision or a name is text, so finkit keeps the characters typed.
+    from finkit.case import load_case
+
+    text = PIN.replace('revision: "1"', f"revision: {typed}").replace(
+        "prepared_by: A. Lindqvist", f"prepared_by: {typed}"
+    )
+    case = load_case(text)
+    assert case.title_block.revision == kept and case.title_block.prepared_by == kept
+
+
+def test_a_variant_table_keeps_a_revision_as_text(tmp_path):
+    from finkit.batch import read_variant_table
+
+    table = tmp_path / "v.csv"
+    table.write_text("variant,title_block.revision,source.power [W]\na,1.10,50\n", encoding="utf-8")
+    (row,) = read_variant_table(table)
+    assert row.overrides == {"title_block.revision": "1.10", "source.power": "50 W"}
+
+
+def test_check_says_when_a_note_figure_is_clipped(tmp_path):
+    # The altitude figure of a note spans 0 to 1000 m above the site; at 19.9 km that leaves the
+    # standard atmosphere (U.S. Standard Atmosphere 1976, up to 20 km in finkit): check says so,
+    # and the note draws the same clipped range instead of failing.
+    text = PIN.replace("altitude: 2500 m", "altitude: 19.9 km")
+    assert text != PIN
+    (tmp_path / "case.yaml").write_text(text, encoding="utf-8")
+    run = finkit("check", "case.yaml", cwd=tmp_path)
+    assert run.returncode in (0, 1), run.stderr
+    assert "the altitude figure ends at 20000 m" in run.stdout
+
+
+def test_an_invalid_variant_row_marks_its_earlier_note_stale(tmp_path):
+    from finkit.batch import run_batch
+
+    out = tmp_path / "out"
+    folder = out / "a"
+    folder.mkdir(parents=True)
+    (folder / "note.html").write_text("<html>an earlier, signed-looking note</html>")
+    (folder / "results.json").write_text("{}")
+    result = run_batch(
+        ROOT / "demo_cases" / "nb300-pin-ducted.yaml",
+        [{"variant": "a", "source.power": "fifty watts"}],
+        out,
+        jobs=1,
+    )
+    assert [o.state for o in result.outcomes] == ["failed"]
+    assert not (folder / "note.html").exists()
+    assert (folder / "note.stale.html").read_text().startswith("<html>an earlier")
+    marker = (folder / "STALE.txt").read_text(encoding="utf-8")
+    assert "do not sign it" in marker and "row is now invalid" in marker
+
+
+def _processes_mentioning(text: str) -> list[int]:
+    found = []
+    for entry in Path("/proc").iterdir():
+        if not entry.name.isdigit():
+            continue
+        try:
+            cmdline = (entry / "cmdline").read_bytes().replace(b"\0", b" ").decode(errors="replace")
+        except OSError:
+            continue
+        if text in cmdline:
+            found.append(int(entry.name))
+    return found
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(not Path("/proc").is_dir(), reason="needs /proc (Linux)")
+def test_a_killed_batch_leaves_no_children_and_resumes_cleanly(tmp_path):
+    import os
+    import signal
+    import time
+
+    # The plate-fin demo (about 10 s a note: Monte Carlo, model-form check) so that a child
+    # is still working when its parent is killed.
+    plate = (ROOT / "demo_cases" / "nb200-plate-fan.yaml").read_text(encoding="utf-8")
+    plate = "\n".join(x for x in plate.splitlines() if not x.startswith("previous_revision"))
+    base = tmp_path / "base.yaml"
+    base.write_text(plate, encoding="utf-8")
+    table = tmp_path / "v.csv"
+    table.write_text("variant,source.power [W]\na,40\nb,44\n", encoding="utf-8")
+    out = tmp_path / "killed-batch-out"
+    args = [sys.executable, "-m", "finkit.cli", "batch", str(base), str(table), "--out", str(out)]
+    parent = subprocess.Popen(
+        [*args, "--jobs", "1"], stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL
+    )
+    run_dir = out / ".finkit-batch-run"
+    deadline = time.monotonic() + 90
+    while time.monotonic() < deadline and not any(run_dir.glob("*.log")):
+        time.sleep(0.2)
+    assert any(run_dir.glob("*.log")), "the batch never started a variant"
+    time.sleep(0.5)
+    os.kill(parent.pid, signal.SIGKILL)
+    parent.wait()
+    # The child sees its parent gone within a second or two and takes its group with it, long
+    # before its note could have finished on its own.
+    assert not (out / "a" / "note.html").exists()
+    deadline = time.monotonic() + 4
+    while time.monotonic() < deadline and _processes_mentioning(str(out)):
+        time.sleep(0.2)
+    assert _processes_mentioning(str(out)) == []
+    assert not (out / "a" / "note.html").exists()
+    # A new run takes the folder over, computes both variants and leaves nothing partial.
+    rerun = subprocess.run([*args, "--jobs", "1"], capture_output=True, text=True, timeout=300)
+    assert rerun.returncode in (0, 1), rerun.stderr
+    assert not run_dir.exists()
+    assert not list(out.rglob("*.partial*"))
+    for variant, power in (("a", "40 W"), ("b", "44 W")):
+        results = json.loads((out / variant / "results.json").read_text(encoding="utf-8"))
+        assert results["inputs"]["source"]["power"] == power
+        assert (out / variant / "note.html").is_file()
