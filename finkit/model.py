@@ -615,6 +615,15 @@ def _named_geometry(case, exc: PropertyRangeError) -> PropertyRangeError:
                 f"sink.fins: fin gap {gap * 1e3:.2f} mm is too small for {n} fins of "
                 f"{t * 1e3:.2g} mm on {w * 1e3:.0f} mm (the air cannot carry the heat: {exc})"
             )
+    from finkit.review import _implausible_flags
+
+    try:
+        implausible = _implausible_flags(case)
+    except Exception:  # noqa: BLE001 - the original error is the one to show then
+        implausible = []
+    if implausible:
+        # the likely cause first (a slip of unit or digits), then what failed
+        return PropertyRangeError(f"{implausible[0]}; the solve then failed: {exc}")
     return exc
 
 

@@ -1636,13 +1636,21 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
     return flags
 
 
-#: Ranges of air-cooled electronics heat sinks; a value outside is flagged, not refused
-#: (common practice, no source).
+#: Ranges of air-cooled electronics heat sinks (low, high, SI unit, field); a value outside is
+#: flagged, not refused: typed with a unit it may be right, but it is more likely a slip of
+#: unit or of digits (common practice, no source).
 PLAUSIBLE = {
     "approach_velocity": (0.0, 20.0, "m/s", "air.flow.approach_velocity"),
-    "fin_height": (0.0, 0.3, "m", "sink.fins.height"),
-    "base_length": (0.0, 1.0, "m", "sink.base.length"),
-    "base_width": (0.0, 1.0, "m", "sink.base.width"),
+    "fin_height": (1e-3, 0.3, "m", "sink.fins.height"),
+    "fin_thickness": (5e-5, 0.02, "m", "sink.fins.thickness"),
+    "pin_diameter": (2e-4, 0.03, "m", "sink.pins.diameter"),
+    "pin_height": (1e-3, 0.3, "m", "sink.pins.height"),
+    "base_length": (5e-3, 1.0, "m", "sink.base.length"),
+    "base_width": (5e-3, 1.0, "m", "sink.base.width"),
+    "base_thickness": (3e-4, 0.1, "m", "sink.base.thickness"),
+    "footprint_length": (5e-4, 0.5, "m", "source.footprint_length"),
+    "footprint_width": (5e-4, 0.5, "m", "source.footprint_width"),
+    "power": (1e-3, 1e4, "W", "source.power"),
     "limit_temperature": (0.0, 250.0 + ZERO_CELSIUS, "K", "limit.temperature"),
     "thermal_conductivity": (0.0, 2000.0, "W/(m K)", "the sink material's conductivity"),
 }
@@ -1653,25 +1661,45 @@ def _implausible_flags(case) -> list[str]:
     from finkit.model import sink_inputs
 
     inputs = sink_inputs(case)
+    fins = getattr(case.sink, "fins", None)
+    pins = getattr(case.sink, "pins", None)
     values = {
         "approach_velocity": getattr(case.air.flow, "approach_velocity", None),
-        "fin_height": getattr(getattr(case.sink, "fins", None), "height", None),
+        "fin_height": getattr(fins, "height", None),
+        "fin_thickness": getattr(fins, "thickness", None),
+        "pin_diameter": getattr(pins, "diameter", None),
+        "pin_height": getattr(pins, "height", None),
         "base_length": case.sink.base.length,
         "base_width": case.sink.base.width,
+        "base_thickness": case.sink.base.thickness,
+        "footprint_length": case.source.footprint_length,
+        "footprint_width": case.source.footprint_width,
+        "power": case.source.power,
         "limit_temperature": case.limit.temperature,
         "thermal_conductivity": float(np.max(inputs.material.thermal_conductivity)),
     }
     out = []
     for name, value in values.items():
         low, high, unit, field_name = PLAUSIBLE[name]
-        if value is not None and not low < value <= high:
-            shown = value - ZERO_CELSIUS if unit == "K" else value
-            shown_unit = "degC" if unit == "K" else unit
-            limit = high - ZERO_CELSIUS if unit == "K" else high
-            out.append(
-                f"{field_name}: {shown:.4g} {shown_unit} is outside what air-cooled electronics "
-                f"use (up to about {limit:g} {shown_unit}); check the value and its unit"
+        if value is None or low < value <= high:
+            continue
+        if unit == "K":
+            shown, shown_unit, span = (
+                value - ZERO_CELSIUS,
+                "degC",
+                f"up to about {high - ZERO_CELSIUS:g} degC",
             )
+        elif unit == "m":
+            shown, shown_unit, span = value * 1e3, "mm", f"about {low * 1e3:g} to {high * 1e3:g} mm"
+        else:
+            shown, shown_unit = value, unit
+            span = (
+                f"up to about {high:g} {unit}" if low <= 0 else f"about {low:g} to {high:g} {unit}"
+            )
+        out.append(
+            f"{field_name}: {shown:.4g} {shown_unit} is outside what air-cooled electronics "
+            f"use ({span}); check the value and its unit"
+        )
     return out
 
 

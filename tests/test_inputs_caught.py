@@ -95,7 +95,7 @@ def test_a_property_failure_from_too_many_fins_names_the_fin_gap():
 @pytest.mark.parametrize(
     ("path", "value", "message"),
     [
-        (("sink", "fins", "height"), "2 m", "sink.fins.height: 2 m is outside"),
+        (("sink", "fins", "height"), "2 m", "sink.fins.height: 2000 mm is outside"),
         (("limit", "temperature"), "3000 degC", "limit.temperature: 3000 degC is outside"),
     ],
 )
@@ -119,3 +119,28 @@ def test_an_approach_velocity_of_300_m_s_is_flagged():
     data["air"]["flow"] = {"approach_velocity": "300 m/s"}
     flags = sanity_flags(load_case(data))
     assert any(f.startswith("air.flow.approach_velocity: 300 m/s is outside") for f in flags)
+
+
+@pytest.mark.parametrize(
+    ("field", "value", "shown"),
+    [
+        (("sink", "base", "thickness"), "1e-300 m", "sink.base.thickness: 1e-297 mm"),
+        (("sink", "pins", "diameter"), "0.01 mm", "sink.pins.diameter: 0.01 mm"),
+        (("source", "footprint_length"), "2 m", "source.footprint_length: 2000 mm"),
+        (("source", "power"), "50 kW", "source.power: 5e+04 W"),
+    ],
+)
+def test_absurd_typed_magnitudes_are_flagged(field, value, shown):
+    # Typed with a unit, so not refused, but far outside air cooling of electronics (the
+    # ranges of review.PLAUSIBLE, common practice, no source): a slip of unit or digits.
+    data = lean("nb300-pin-ducted")
+    target = data
+    for key in field[:-1]:
+        target = target[key]
+    target[field[-1]] = value
+    try:
+        warnings = run_case(load_case(data)).warnings
+    except Exception as exc:  # noqa: BLE001 - a refusal that names the field is fine too
+        assert str(exc).startswith(".".join(field) + ":"), exc
+        return
+    assert any(w.startswith(shown) and "outside what air-cooled" in w for w in warnings), warnings
