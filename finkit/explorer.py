@@ -35,13 +35,14 @@ import copy
 import datetime as _dt
 import io
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from finkit import present
+from finkit.constants import ZERO_CELSIUS
 from finkit.errors import FinkitError, InputError, NotSupportedError
 from finkit.units import format_quantity, from_si
 
@@ -72,7 +73,40 @@ CONTROL_NAMES = (
 _NOT_NOMINAL = ("scenarios", "touch", "tolerances", "monte_carlo", "trade_study", "sweeps")
 
 # Unit symbols shown in control descriptions.
-_SYMBOL = {"mm": "mm", "degC": "°C", "W": "W", "m": "m", "CFM": "CFM", "m/s": "m/s", "-": "-"}
+_SYMBOL = {
+    "mm": "mm",
+    "degC": "°C",
+    "W": "W",
+    "m": "m",
+    "CFM": "CFM",
+    "m/s": "m/s",
+    "-": "-",
+    "in": "in",
+    "degF": "°F",
+    "ft": "ft",
+    "ft/min": "ft/min",
+}
+
+#: Display unit systems of the explorer (:meth:`Explorer.set_unit_system`).
+UNIT_SYSTEMS = ("SI", "US")
+#: US customary display unit and slider step for each SI display unit of a control (the
+#: others, CFM, W, counts and factors, are the same in both systems).
+_US_UNIT = {"mm": ("in", 0.005), "degC": ("degF", 1.0), "m": ("ft", 100.0), "m/s": ("ft/min", 10.0)}
+#: Units of the numbers and plots in each system: temperature, temperature difference, length,
+#: pressure.
+_DISPLAY = {
+    "SI": {"temperature": "degC", "difference": "K", "length": "mm", "pressure": "Pa"},
+    "US": {"temperature": "degF", "difference": "°F", "length": "in", "pressure": "inH2O"},
+}
+
+
+def _convert(value: float, kind: str, unit_from: str, unit_to: str) -> float:
+    """A display value from one unit to another (temperatures with their offsets)."""
+    if unit_from == unit_to:
+        return float(value)
+    from finkit.units import to_si
+
+    return float(from_si(to_si(f"{float(value)!r} {unit_from}", kind, "explorer"), kind, unit_to))
 
 
 @dataclass(frozen=True)
@@ -441,6 +475,8 @@ class Explorer:
         self._source = validated.source_path
         self._dpi = float(dpi)
         self.specs = {spec.name: spec for spec in control_specs(validated)}
+        self._si_specs = dict(self.specs)
+        self.unit_system = "SI"
         self._initial = {name: spec.value for name, spec in self.specs.items()}
         self._hold = False
         self.result = None
@@ -496,6 +532,13 @@ class Explorer:
                 )
             self.controls[name] = control
 
+        self._units = widgets.ToggleButtons(
+            options=list(UNIT_SYSTEMS),
+            value="SI",
+            description="Units",
+            tooltips=["SI (mm, °C, m/s, Pa)", "US customary (in, °F, ft/min, inH2O)"],
+            style={"description_width": "60px", "button_width": "56px"},
+        )
         self._readout = widgets.HTML()
         self._image = widgets.Image(
             format="png", layout=widgets.Layout(width="100%", max_width="760px")
@@ -525,6 +568,7 @@ class Explorer:
         left = widgets.VBox(
             [
                 title,
+                self._units,
                 *self.controls.values(),
                 self._save_path,
                 widgets.HBox([self._save_button, self._overwrite, self._reset_button], layout=wrap),
@@ -555,6 +599,79 @@ class Explorer:
             control.observe(self._changed, names="value")
             if name == "material":
                 control.observe(self._material_changed, names="value")
+        self._units.observe(lambda change: self.set_unit_system(change["new"]), names="value")
+
+    def set_unit_system(self, system: str):
+        """Show controls, numbers and plots in SI or US customary units.
+
+        Lengths mm <-> in, temperatures °C <-> °F, altitude m <-> ft, velocity m/s <-> ft/min,
+        pressure Pa <-> inH2O; flows stay in CFM and powers in W. Only the display changes: a
+        control left at the case's value stays exactly at it, a moved one keeps its physical
+        value (rounded to the slider step of the new unit), and a saved case writes changed
+        values in the units shown.
+
+        Parameters
+        ----------
+        system : str
+            One of :data:`UNIT_SYSTEMS`. [-]
+
+        Returns
+        -------
+        finkit.model.CaseResult or None
+            As :meth:`update`.
+        """
+        if system not in UNIT_SYSTEMS:
+            raise InputError(f"explorer units: got {system!r}; allowed: {', '.join(UNIT_SYSTEMS)}")
+        self._hold = True
+        try:
+            for name, base in self._si_specs.items():
+                if base.kind is None or base.unit not in _US_UNIT:
+                    continue
+                unit, step = (base.unit, base.step) if system == "SI" else _US_UNIT[base.unit]
+                if system == "US" and base.unit == "mm" and base.step > 0.1:
+                    step = 0.02
+                now = self.specs[name]
+                control = self.controls[name]
+                moved = control.value != self._initial[name]
+                value = _convert(base.value, base.kind, base.unit, unit)
+                low = _round_to(_convert(base.minimum, base.kind, base.unit, unit), step)
+                high = _round_to(_convert(base.maximum, base.kind, base.unit, unit), step)
+                low, high = min(low, value), max(high, value)
+                current = (
+                    _round_to(_convert(control.value, base.kind, now.unit, unit), step)
+                    if moved
+                    else value
+                )
+                spec = replace(base, unit=unit, minimum=low, maximum=high, step=step, value=value)
+                self.specs[name] = spec
+                self._initial[name] = value
+                decimals = max(0, -int(np.floor(np.log10(step))))
+                with control.hold_trait_notifications():
+                    control.max = max(high, control.max)
+                    control.min = min(low, control.min)
+                    control.step = step
+                    control.value = min(max(current, low), high)
+                    control.min, control.max = low, high
+                    control.readout_format = f".{decimals}f"
+                    control.description = spec.description
+            self.unit_system = system
+            if self._units.value != system:
+                self._units.value = system
+        finally:
+            self._hold = False
+        return self.update()
+
+    def _display(self, value_si: float, what: str) -> float:
+        """A number in the display unit of the current system (``what`` as in _DISPLAY)."""
+        unit = _DISPLAY[self.unit_system][what]
+        if what == "difference":
+            return float(value_si) * (1.8 if unit == "°F" else 1.0)
+        kind = {"temperature": "temperature", "length": "length", "pressure": "pressure"}[what]
+        return float(from_si(value_si, kind, unit))
+
+    def _symbol(self, what: str) -> str:
+        unit = _DISPLAY[self.unit_system][what]
+        return {"degC": "°C", "degF": "°F"}.get(unit, unit)
 
     # ----------------------------------------------------------------------------------
     # Display
@@ -701,7 +818,8 @@ class Explorer:
         return out
 
     def _surroundings_entered(self) -> str:
-        t_in = float(self.controls["inlet_temperature"].value)
+        spec = self.specs["inlet_temperature"]
+        t_in = _convert(self.controls["inlet_temperature"].value, "temperature", spec.unit, "degC")
         offset = float(self._surroundings_offset)
         return f"{t_in + offset:.6g} degC"
 
@@ -783,7 +901,7 @@ class Explorer:
         inlet = np.linspace(low, high, 41)
         out: dict[str, Any] = {"inlet": inlet}
         out["inlet_sweep"] = note_sweep(inputs, "inlet_temperature", inlet)
-        spec = self.specs.get("fin_height") or self.specs.get("pin_height")
+        spec = self._si_specs.get("fin_height") or self._si_specs.get("pin_height")
         heights = np.linspace(spec.minimum, spec.maximum, 36) * 1e-3
         out["heights"] = heights
         out["height_sweep"] = note_sweep(inputs, "fin_height", heights)
@@ -825,8 +943,8 @@ class Explorer:
         if np.isfinite(float(np.asarray(sol.outlet_air_temperature))) and self._is_forced(result):
             rows.append(("Outlet air", sol.outlet_air_temperature, False))
         rows.append(("Inlet air", sol.inlet_air_temperature, False))
-        t_in = float(from_si(float(np.asarray(sol.inlet_air_temperature)), "temperature", "degC"))
-        values = [float(from_si(float(np.asarray(t)), "temperature", "degC")) for _, t, _ in rows]
+        t_in = self._display(float(np.asarray(sol.inlet_air_temperature)), "temperature")
+        values = [self._display(float(np.asarray(t)), "temperature") for _, t, _ in rows]
         ok = result.results["temperature_margin"] >= inputs.required_margin
         colour = [
             (colours["primary"] if ok else colours["limit"])
@@ -839,10 +957,9 @@ class Explorer:
         ax.barh(y, [v - floor for v in values], left=floor, color=colour, height=0.6)
         for yi, v in zip(y, values, strict=True):
             ax.text(v, yi, f" {v:.1f}", va="center", fontsize=8)
-        limit = float(from_si(inputs.limit_temperature, "temperature", "degC"))
-        usable = float(
-            from_si(inputs.limit_temperature - inputs.required_margin, "temperature", "degC")
-        )
+        limit = self._display(inputs.limit_temperature, "temperature")
+        usable = self._display(inputs.limit_temperature - inputs.required_margin, "temperature")
+        t_sym, dt_sym = self._symbol("temperature"), self._symbol("difference")
         ax.axvline(limit, color=colours["limit"], linestyle="--", linewidth=1.4, label="Limit")
         if inputs.required_margin > 0:
             ax.axvline(
@@ -857,11 +974,15 @@ class Explorer:
         ax.autoscale_view()
         ax.set_ylim(len(rows) - 0.5, -0.5)  # first row on top (axes are reused: no invert)
         ax.set_xlim(floor, max(limit, max(values)) * 1.12 + 2.0)
-        ax.set_xlabel("Temperature [°C]")
+        ax.set_xlabel(f"Temperature [{t_sym}]")
         verdict = "PASS" if ok else "FAIL"
+        node_t = self._display(
+            result.results["limit_node_temperature"] + ZERO_CELSIUS, "temperature"
+        )
+        margin = self._display(result.results["temperature_margin"], "difference")
         ax.set_title(
-            f"{node.capitalize()} {result.results['limit_node_temperature']:.1f} °C, "
-            f"{result.results['temperature_margin']:.1f} K below the limit: {verdict} (nominal)",
+            f"{node.capitalize()} {node_t:.1f} {t_sym}, "
+            f"{margin:.1f} {dt_sym} below the limit: {verdict} (nominal)",
             fontsize=9,
             loc="left",
         )
@@ -869,10 +990,11 @@ class Explorer:
         ax.legend(loc="lower right", fontsize=7.5)
 
     def _draw_allowable(self, ax, result, curves, colours) -> None:
-        x = from_si(curves["inlet"], "temperature", "degC")
+        t_unit, t_sym = _DISPLAY[self.unit_system]["temperature"], self._symbol("temperature")
+        x = from_si(curves["inlet"], "temperature", t_unit)
         power = float(np.asarray(result.solution.power))
-        t_case = float(
-            from_si(float(np.asarray(result.inputs.air.inlet_temperature)), "temperature", "degC")
+        t_case = self._display(
+            float(np.asarray(result.inputs.air.inlet_temperature)), "temperature"
         )
         ax.plot(
             x,
@@ -883,14 +1005,15 @@ class Explorer:
         ax.axhline(power, color=colours["secondary"], linewidth=1.4, label=f"Power {power:.1f} W")
         ax.axvline(t_case, color=colours["air"], linestyle="-.", linewidth=1.2)
         ax.plot([t_case], [result.results["allowable_power"]], "o", color=colours["primary"])
-        ax.set_xlabel("Inlet air temperature [°C]")
+        ax.set_xlabel(f"Inlet air temperature [{t_sym}]")
         ax.set_ylabel("Power [W]")
         ax.relim()
         ax.autoscale_view()
         ax.set_ylim(bottom=0)
         ax.set_xlim(x[0], x[-1])
         ax.set_title(
-            f"Allowable power {result.results['allowable_power']:.1f} W at {t_case:.1f} °C inlet",
+            f"Allowable power {result.results['allowable_power']:.1f} W "
+            f"at {t_case:.1f} {t_sym} inlet",
             fontsize=9,
             loc="left",
         )
@@ -923,10 +1046,12 @@ class Explorer:
             )
             return
         to_cfm = from_si(1.0, "volume_flow", "CFM")
+        p_unit, p_sym = _DISPLAY[self.unit_system]["pressure"], self._symbol("pressure")
+        to_p = from_si(1.0, "pressure", p_unit)
         system = curves["system"]
         ax.plot(
             system["volume_flow"] * to_cfm,
-            system["pressure_drop"],
+            system["pressure_drop"] * to_p,
             color=colours["primary"],
             label="System (sink" + (" + bypass)" if result.inputs.bypass is not None else ")"),
         )
@@ -934,7 +1059,7 @@ class Explorer:
             fan = curves["fan"]
             ax.plot(
                 fan["volume_flow"] * to_cfm,
-                fan["at_inlet"],
+                fan["at_inlet"] * to_p,
                 color=colours["secondary"],
                 label=f"Fan at {fan['inlet_density']:.3f} kg/m³",
             )
@@ -945,18 +1070,18 @@ class Explorer:
         dp = result.results["pressure_drop"]
         ax.plot(
             [q * to_cfm],
-            [dp],
+            [dp * to_p],
             "o",
             color="black",
             zorder=5,
-            label=f"{label} {q * to_cfm:.2f} CFM, {dp:.1f} Pa",
+            label=f"{label} {q * to_cfm:.2f} CFM, {dp * to_p:.3g} {p_sym}",
         )
         ax.relim()
         ax.autoscale_view()
         ax.set_xlim(0, curves["q_max"] * to_cfm)
         ax.set_ylim(bottom=0)
         ax.set_xlabel("Total volume flow [CFM]")
-        ax.set_ylabel("Static pressure [Pa]")
+        ax.set_ylabel(f"Static pressure [{p_sym}]")
         title = "Fan and system curves" if "fan" in curves else "System curve, given flow"
         if result.inputs.bypass is not None:
             title += f" (bypass {result.results['bypass_fraction'] * 100:.0f} % of the flow)"
@@ -964,26 +1089,27 @@ class Explorer:
         ax.legend(loc="upper right", fontsize=7.5)
 
     def _draw_efficiency(self, ax, result, curves, colours) -> None:
-        heights = curves["heights"] * 1e3
+        l_unit, l_sym = _DISPLAY[self.unit_system]["length"], self._symbol("length")
+        heights = from_si(curves["heights"], "length", l_unit)
         sweep = curves["height_sweep"]
         pins = "pin_height" in self.specs
         name = "Pin height" if pins else "Fin height"
         g = result.inputs.geometry
-        h0 = float(np.asarray(g.pin_height if pins else g.fin_height)) * 1e3
+        h0 = self._display(float(np.asarray(g.pin_height if pins else g.fin_height)), "length")
         eta = result.results["fin_efficiency"]
         ax.plot(
             heights, sweep["fin_efficiency"], color=colours["tertiary"], label="Fin efficiency η_f"
         )
         ax.plot([h0], [eta], "o", color=colours["tertiary"])
         ax.axvline(h0, color=colours["air"], linestyle="-.", linewidth=1.2)
-        ax.set_xlabel(f"{name} [mm]")
+        ax.set_xlabel(f"{name} [{l_sym}]")
         ax.set_ylabel("Fin efficiency [-]")
         ax.relim()
         ax.autoscale_view()
         ax.set_ylim(min(0.5, float(np.nanmin(sweep["fin_efficiency"])) - 0.05), 1.0)
         ax.set_xlim(heights[0], heights[-1])
         ax.set_title(
-            f"Fin efficiency {eta:.3f} at {h0:.1f} mm ({name.lower()})", fontsize=9, loc="left"
+            f"Fin efficiency {eta:.3f} at {h0:.3g} {l_sym} ({name.lower()})", fontsize=9, loc="left"
         )
         ax.legend(loc="lower left", fontsize=7.5)
 
@@ -998,16 +1124,24 @@ class Explorer:
         inputs = result.inputs
         ok = r["temperature_margin"] >= inputs.required_margin
         node = inputs.limit_node
+        t_sym, dt_sym = self._symbol("temperature"), self._symbol("difference")
+
+        def temp(celsius):
+            return f"{self._display(celsius + ZERO_CELSIUS, 'temperature'):.1f} {t_sym}"
+
+        def diff(kelvin):
+            return f"{self._display(kelvin, 'difference'):.1f} {dt_sym}"
+
         rows = [
             (
                 f"{node.capitalize()} (limit node)",
-                f"{r['limit_node_temperature']:.1f} °C",
-                f"limit {r['limit_temperature']:.1f} °C",
+                temp(r["limit_node_temperature"]),
+                f"limit {temp(r['limit_temperature'])}",
             ),
             (
                 "Margin below the limit",
-                f"{r['temperature_margin']:.1f} K",
-                f"required {r['required_margin']:.1f} K",
+                diff(r["temperature_margin"]),
+                f"required {diff(r['required_margin'])}",
             ),
             (
                 "Allowable power (limit less margin)",
@@ -1028,7 +1162,12 @@ class Explorer:
                     format_quantity(r["volume_flow"], "volume_flow", "CFM"),
                     format_quantity(r["sink_volume_flow"], "volume_flow", "CFM"),
                 ),
-                ("Pressure drop", f"{r['pressure_drop']:.1f} Pa", ""),
+                (
+                    "Pressure drop",
+                    f"{self._display(r['pressure_drop'], 'pressure'):.3g} "
+                    f"{self._symbol('pressure')}",
+                    "",
+                ),
             ]
         rows += [
             ("Heat transfer coefficient", f"{r['heat_transfer_coefficient']:.1f} W/(m²·K)", ""),
@@ -1050,7 +1189,7 @@ class Explorer:
         head = (
             f'<div style="font-weight:bold;color:{colour};margin-bottom:4px">{verdict} '
             f"(nominal): {present.escape(node)} "
-            f"{present.escape(format(r['temperature_margin'], '.1f'))} K below the limit</div>"
+            f"{present.escape(diff(r['temperature_margin']))} below the limit</div>"
         )
         note = present.escape(
             f"Updated in {self.seconds * 1e3:.0f} ms. Scenarios, touch check and tolerances "

@@ -393,3 +393,28 @@ def test_lab_without_jupyterlab_says_so_in_one_line(tmp_path, capsys, monkeypatc
     assert cli.main(["lab", "--dir", str(tmp_path / "lab")]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "JupyterLab is not installed" in err[0] and "pip install" in err[0]
+
+
+def test_us_units_change_the_display_not_the_case(tmp_path):
+    # Display toggle (issue 14): the case is the same in SI and US customary units; a control
+    # left alone stays exactly at the case's value, set() takes US strings, and a saved case
+    # writes the changed value in the unit shown. 1 in = 25.4 mm, T[°F] = 1.8 T[°C] + 32
+    # (NIST SP 811, Appendix B; exact by definition).
+    e = explore(DEMO_CASES / "nb200-plate-fan.yaml")
+    before = dict(e.numbers)
+    e.set_unit_system("US")
+    assert e.controls["fin_height"].description == "Fin height [in]"
+    assert e.controls["fin_height"].value == pytest.approx(30 / 25.4)
+    assert e.controls["inlet_temperature"].value == pytest.approx(50 * 1.8 + 32)
+    assert e.changes() == [] and e.numbers == before
+    assert "°F" in e._readout.value and "°C" not in e._readout.value
+    e.set(fin_height="1.5 in")
+    assert e.changes() == [("sink.fins.height", "30 mm", "1.5 in")]
+    saved = e.save_case(tmp_path / "us.yaml")
+    assert "height: 1.5 in" in saved.read_text(encoding="utf-8")
+    e.set_unit_system("SI")
+    assert e.controls["fin_height"].value == pytest.approx(38.0)  # 38.1 mm on the 0.5 mm step
+    e.reset()
+    assert e.changes() == [] and e.numbers == before
+    with pytest.raises(InputError, match="allowed: SI, US"):
+        e.set_unit_system("imperial")
