@@ -540,8 +540,10 @@ class Explorer:
             style={"description_width": "60px", "button_width": "56px"},
         )
         self._readout = widgets.HTML()
+        # No margin: the widgets' default 2 px margins on a 100 % width overflowed the pane by
+        # 4 px and gave it a sideways scroll bar (seen in JupyterLab at 1500 px).
         self._image = widgets.Image(
-            format="png", layout=widgets.Layout(width="100%", max_width="760px")
+            format="png", layout=widgets.Layout(width="100%", max_width="760px", margin="0px")
         )
         default_name = f"{validated.case_id}-explored.yaml"
         self._save_path = widgets.Text(
