@@ -79,7 +79,7 @@ from pathlib import Path
 from typing import Any
 from urllib.parse import quote
 
-from finkit import notes
+from finkit import notes, present
 from finkit.errors import FinkitError, InputError, NotSupportedError
 
 __all__ = [
@@ -2040,13 +2040,13 @@ ul.failures li { margin-bottom: 0.5em; } code { overflow-wrap: anywhere; }
 """
 
 
-def _label(column: str, unit: str) -> str:
-    """``source.power`` -> ``<span title="source.power">power [W]</span>``: the field without its
-    block, the full path on hover."""
+def _label(column: str, unit: str) -> dict[str, str]:
+    """``source.power`` -> ``{"text": "power [W]", "path": "source.power"}``: the field without
+    its block, the full path on hover."""
     parts = column.split(".")
     text = " ".join(parts[1:] if len(parts) > 1 else parts).replace("_", " ")
     shown = f"{text} [{_UNIT_TEXT.get(unit, unit)}]" if unit else text
-    return f'<span title="{_esc(column)}">{_esc(shown)}</span>'
+    return {"text": shown, "path": column}
 
 
 def _plain(value: float) -> str:
@@ -2064,72 +2064,65 @@ def _sig3(value: float | None, unit: str = "") -> str:
     return f"{text}\u00a0{_UNIT_TEXT.get(unit, unit)}" if unit else text
 
 
-def _variant_table(
+def _variant_rows(
     group: Sequence[VariantOutcome],
     varying: Sequence[str],
-    numeric: Mapping[str, str],
     texts: Sequence[str],
     out: Path,
     earlier: Path | None = None,
-) -> str:
-    """One sortable table of variants: what changed, the governing verdict, the reason."""
-    headers = ["Variant", *(_label(c, numeric[c]) for c in varying)]
-    headers += ["Status", "Governing condition", "Margin [K]", "Allowable power [W]"]
-    headers += ["Reason", "Note"]
-    rows = ['<div class="scroll"><table class="fk-sortable"><thead><tr>']
-    rows += [f'<th data-sortable tabindex="0">{h}</th>' for h in headers]
-    rows.append("</tr></thead><tbody>")
+) -> list[dict[str, Any]]:
+    """The rows of one variant table (plain values; the page template escapes them)."""
     status_order = {"fail": 0, "error": 1, "pass": 2}
+    badge = {"pass": "PASS", "fail": "FAIL", "error": "NOT COMPUTED"}
+    rows = []
     for o in group:
-        extra = "".join(
-            f'<br><span class="muted">{_esc(_shown_value(o.overrides.get(c)))}</span>'
-            for c in texts
-            if o.overrides.get(c) is not None
-        )
-        cells = [
-            f'<td class="variant" data-sort="{_esc(o.variant)}">'
-            f"<strong>{_esc(o.variant) or '<em>(no id)</em>'}</strong>{extra}</td>"
-        ]
+        numbers = []
         for c in varying:
             parsed = _number_and_unit(o.overrides.get(c))
             value = None if parsed is None else parsed[0]
-            sort = "" if value is None else repr(value)
-            shown = "—" if value is None else _plain(value)
-            cells.append(f'<td class="num" data-sort="{sort}">{shown}</td>')
-        cells.append(f'<td data-sort="{status_order[o.status]}">{_badge(o.status)}</td>')
+            numbers.append(
+                {
+                    "sort": "" if value is None else repr(value),
+                    "shown": "—" if value is None else _plain(value),
+                }
+            )
         margin, condition = o.margin()
         required = o.result_value("required_margin")
         allowed = o.result_value("allowable_power")
         stated = o.result_value("power")
-        shown_condition = condition if margin is not None else ""
-        cells.append(f'<td data-sort="{_esc(shown_condition)}">{_esc(shown_condition)}</td>')
-        against = "" if required is None else f'<br><span class="muted">req. {required:.3g}</span>'
-        sort = "" if margin is None else repr(margin)
-        cells.append(f'<td class="num" data-sort="{sort}">{_sig3(margin)}{against}</td>')
-        against = "" if stated is None else f'<br><span class="muted">stated {stated:.3g}</span>'
-        sort = "" if allowed is None else repr(allowed)
-        cells.append(f'<td class="num" data-sort="{sort}">{_sig3(allowed)}{against}</td>')
-        reason = _reason(o)
-        since = _since(o, earlier)
-        changed = (
-            f'<br><strong class="changed">since {_esc(earlier.name)}: {_esc(since)}</strong>'
-            if since and earlier is not None
-            else ""
-        )
-        cells.append(f'<td class="text" data-sort="{_esc(reason)}">{_esc(reason)}{changed}</td>')
+        since = _since(o, earlier) if earlier is not None else None
         links = _note_links(out, o)
-        if links["note"]:
-            link = f'<a href="{_esc(quote(links["note"]))}">note</a>'
-            if o.state == "reused":
-                link += ' <span class="muted">(reused)</span>'
-        elif links["failed_notebook"]:
-            link = f'<a href="{_esc(quote(links["failed_notebook"]))}">partial notebook</a>'
-        else:
-            link = '<span class="muted">—</span>'
-        cells.append(f'<td class="id" data-sort="{_esc(o.state)}">{link}</td>')
-        rows.append("<tr>" + "".join(cells) + "</tr>")
-    rows.append("</tbody></table></div>")
-    return "\n".join(rows)
+        rows.append(
+            {
+                "variant": o.variant,
+                "texts": [
+                    _shown_value(o.overrides.get(c))
+                    for c in texts
+                    if o.overrides.get(c) is not None
+                ],
+                "numbers": numbers,
+                "status": o.status,
+                "status_order": status_order[o.status],
+                "badge": badge[o.status],
+                "condition": condition if margin is not None else "",
+                "margin": _sig3(margin),
+                "margin_sort": "" if margin is None else repr(margin),
+                "required": "" if required is None else f"{required:.3g}",
+                "allowed": _sig3(allowed),
+                "allowed_sort": "" if allowed is None else repr(allowed),
+                "stated": "" if stated is None else f"{stated:.3g}",
+                "reason": _reason(o),
+                "since": since or "",
+                "since_name": earlier.name if earlier is not None else "",
+                "state": o.state,
+                "note": quote(links["note"]) if links["note"] else "",
+                "reused": o.state == "reused",
+                "failed_notebook": (
+                    quote(links["failed_notebook"]) if links["failed_notebook"] else ""
+                ),
+            }
+        )
+    return rows
 
 
 def _esc(value: Any) -> str:
@@ -2138,11 +2131,6 @@ def _esc(value: Any) -> str:
 
 def _number(value: float | None) -> str:
     return "—" if value is None else f"{value:.4g}"
-
-
-def _badge(status: str) -> str:
-    label = {"pass": "PASS", "fail": "FAIL", "error": "NOT COMPUTED"}[status]
-    return f'<span class="badge {status}">{label}</span>'
 
 
 def _margin_chart(outcomes: Sequence[VariantOutcome]) -> str:
@@ -2256,16 +2244,6 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         EXIT_NOT_COMPUTED: "some variants could not be computed",
     }.get(exit_code, "")
 
-    p = [
-        "<!DOCTYPE html>",
-        '<html lang="en"><head><meta charset="utf-8">',
-        f'<meta http-equiv="Content-Security-Policy" content="{_esc(csp)}">',
-        '<meta name="viewport" content="width=device-width, initial-scale=1">',
-        f"<title>Batch {_esc(info.get('base_case_id'))} — {_esc(info.get('date'))}</title>",
-        f"<style>{_OVERVIEW_CSS}</style></head><body>",
-        f"<h1>Variant batch of {_esc(info.get('base_case_id'))}</h1>",
-        '<dl class="info">',
-    ]
     facts = [
         ("Date", info.get("date")),
         ("Base case", info.get("base_case")),
@@ -2280,16 +2258,6 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         ),
         ("Exit status", f"{exit_code}: {verdict}"),
     ]
-    for name, value in facts:
-        p.append(f"<dt>{_esc(name)}</dt><dd>{_esc(value)}</dd>")
-    p.append("</dl>")
-
-    p.append(
-        '<p class="muted">Every value is that of the variant\'s governing condition (its '
-        "operating condition with the least margin), as in its results.json; the columns "
-        "after the variant are its entries in the variant table. Click a column heading to "
-        "sort a table.</p>"
-    )
     earlier = Path(info["compare_to"]) if info.get("compare_to") else None
     numeric = _numeric_overrides(outcomes)
     varying = [
@@ -2298,18 +2266,34 @@ def overview_html(info: Mapping[str, Any], outcomes: Sequence[VariantOutcome], o
         if len({_number_and_unit(o.overrides.get(c)) for o in outcomes if c in o.overrides}) > 1
     ]
     texts = [c for c in overrides if c not in numeric]
-    for status, title in (("fail", "Fail"), ("error", "Not computed"), ("pass", "Pass")):
-        group = [o for o in outcomes if o.status == status]
-        p.append(f"<h2>{title} ({len(group)})</h2>")
-        if not group:
-            p.append('<p class="muted">None.</p>')
-            continue
-        p.append(_variant_table(group, varying, numeric, texts, out, earlier))
-    p.append("<h2>Temperature margin</h2>")
-    p.append(_margin_chart(outcomes))
-    p.append(f"<script>{_SORT_SCRIPT}</script>")
-    p.append("</body></html>")
-    return "\n".join(p)
+    headers = [{"text": "Variant", "path": ""}, *(_label(c, numeric[c]) for c in varying)]
+    headers += [
+        {"text": t, "path": ""}
+        for t in ("Status", "Governing condition", "Margin [K]", "Allowable power [W]")
+    ]
+    headers += [{"text": "Reason", "path": ""}, {"text": "Note", "path": ""}]
+    groups = [
+        {
+            "title": title,
+            "rows": _variant_rows(
+                [o for o in outcomes if o.status == status], varying, texts, out, earlier
+            ),
+        }
+        for status, title in (("fail", "Fail"), ("error", "Not computed"), ("pass", "Pass"))
+    ]
+    from markupsafe import Markup
+
+    return present.page_template("batch_overview.html.j2").render(
+        csp=csp,
+        css=Markup(_OVERVIEW_CSS),  # constants of this module, not user text
+        script=Markup(_SORT_SCRIPT),  # the CSP names its hash: it must be verbatim
+        base_case_id=info.get("base_case_id"),
+        date=info.get("date"),
+        facts=facts,
+        headers=headers,
+        groups=groups,
+        margin_chart=Markup(_margin_chart(outcomes)),  # escapes its own texts
+    )
 
 
 # --------------------------------------------------------------------------------------------

@@ -1203,7 +1203,14 @@ class Explorer:
         )
 
     def png(self, dpi: float | None = None) -> bytes:
-        """The current plots as PNG bytes."""
+        """The current plots as PNG bytes.
+
+        Kept as an image widget rather than an interactive widget backend (ipympl): measured
+        on the plate-fin demo, ``savefig`` costs about 130 ms of a 300 ms update and nearly
+        all of it is Agg rendering, which such a backend does too (it also sends PNG frames);
+        PNG compression is under 10 ms of it. The backend would add a dependency and a
+        JupyterLab extension for no gain in speed.
+        """
         buffer = io.BytesIO()
         self.figure.savefig(buffer, format="png", dpi=dpi or self._dpi, facecolor="white")
         return buffer.getvalue()

@@ -198,23 +198,47 @@ def html_table(
     >>> str(html_table([["<b>", 2]]))[-68:]
     '<tr><td>&lt;b&gt;</td><td class="fk-num">2</td></tr></tbody></table>'
     """
+    from markupsafe import Markup
+
     classes = "fk-table" + (f" {css_class}" if css_class else "")
-    parts = [f'<table class="{escape(classes)}">']
-    if caption is not None:
-        parts.append(f"<caption>{escape(caption)}</caption>")
-    if header is not None:
-        parts.append("<thead><tr>")
-        parts.extend(f"<th>{escape(cell)}</th>" for cell in header)
-        parts.append("</tr></thead>")
-    parts.append("<tbody>")
-    for row in rows:
-        parts.append("<tr>")
-        for cell in row:
-            markup, is_number = _format_cell(cell)
-            parts.append(f'<td class="fk-num">{markup}</td>' if is_number else f"<td>{markup}</td>")
-        parts.append("</tr>")
-    parts.append("</tbody></table>")
-    return Fragment("".join(parts))
+    html = page_template("table.html.j2").render(
+        classes=Markup(escape(classes)),
+        caption=None if caption is None else Markup(escape(caption)),
+        header=None if header is None else [Markup(escape(cell)) for cell in header],
+        rows=[
+            [(Markup(markup), is_number) for markup, is_number in map(_format_cell, row)]
+            for row in rows
+        ],
+    )
+    return Fragment(html)
+
+
+def page_template(name: str):
+    """A Jinja2 template of ``finkit/page_templates`` (HTML, autoescaping on).
+
+    Parameters
+    ----------
+    name : str
+        File name, e.g. ``"batch_overview.html.j2"``. [-]
+
+    Returns
+    -------
+    jinja2.Template
+        Render it with plain values; text is escaped, ``markupsafe.Markup`` is kept. [-]
+    """
+    import jinja2
+
+    global _PAGE_ENV
+    if _PAGE_ENV is None:
+        _PAGE_ENV = jinja2.Environment(
+            loader=jinja2.PackageLoader("finkit", "page_templates"),
+            autoescape=True,
+            undefined=jinja2.StrictUndefined,
+        )
+    return _PAGE_ENV.get_template(name)
+
+
+_PAGE_ENV = None
 
 
 def key_value_table(
