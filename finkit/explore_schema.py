@@ -52,10 +52,10 @@ from pydantic import (
     model_validator,
 )
 
+from finkit.bounds import Envelope, ManufacturingBounds
 from finkit.errors import InputError
 from finkit.schema_fields import StrictModel, fail, fail_many, quantity, whole
-from finkit.trade import Envelope, ManufacturingBounds
-from finkit.uncertainty import TOLERANCE_INPUTS, Tolerance
+from finkit.tolerance import TOLERANCE_INPUTS, Tolerance
 from finkit.units import to_si
 
 __all__ = [

@@ -1709,8 +1709,8 @@ def _manufacturing_flags(case) -> list[str]:
     The bounds are :class:`finkit.trade.ManufacturingBounds` (the case's ``trade_study`` bounds
     when it gives them): common practice for extruded sinks, no source.
     """
+    from finkit.bounds import ManufacturingBounds
     from finkit.explore_schema import to_bounds
-    from finkit.trade import ManufacturingBounds
 
     sink = case.sink
     if sink.type != "plate-fin" or sink.fins is None:
