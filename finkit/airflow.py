@@ -33,11 +33,9 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import NamedTuple
+from typing import Any, NamedTuple
 
 import numpy as np
-from scipy.interpolate import PchipInterpolator
-from scipy.optimize import brentq
 
 from finkit.errors import InputError, NotSupportedError, SolverError
 
@@ -177,7 +175,7 @@ class FanCurve:
     static_pressure: tuple[float, ...]
     rating_density: float = STANDARD_AIR_DENSITY
     name: str = ""
-    _curve: PchipInterpolator = field(init=False, repr=False, compare=False)
+    _curve: Any = field(init=False, repr=False, compare=False)  # scipy PchipInterpolator
     _slope: object = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
@@ -221,6 +219,8 @@ class FanCurve:
             raise InputError(
                 f"FanCurve.rating_density = {self.rating_density!r} kg/m³; must be > 0"
             )
+        from scipy.interpolate import PchipInterpolator  # here: scipy.interpolate costs 0.25 s
+
         curve = PchipInterpolator(np.array(flow), np.array(pressure), extrapolate=False)
         object.__setattr__(self, "volume_flow", flow)
         object.__setattr__(self, "static_pressure", pressure)
@@ -462,6 +462,8 @@ class FanCurve:
             def net_flow(q):
                 return running * q - m * np.sqrt(max(float(self._curve(q)), 0.0) / r)
 
+            from scipy.optimize import brentq
+
             q0 = brentq(net_flow, grid[i], grid[i + 1], xtol=1e-15, rtol=1e-13)
             keep = grid > q0
             flows = np.concatenate([[0.0], net[keep]])
@@ -477,6 +479,8 @@ class FanCurve:
 
             def net_pressure(q):
                 return running * float(self._curve(q)) - m * r * q * q
+
+            from scipy.optimize import brentq
 
             q_end = brentq(net_pressure, grid[i], grid[i + 1], xtol=1e-15, rtol=1e-13)
             keep = grid < q_end

@@ -26,7 +26,6 @@ from dataclasses import dataclass, field, replace
 from typing import Any
 
 import numpy as np
-from scipy.optimize import least_squares
 
 from finkit.airflow import FanCurve, power_law_pressure_drop
 from finkit.constants import ZERO_CELSIUS
@@ -1264,6 +1263,8 @@ def calibrate(
 
     def residual(x):
         return _predict(groups, target, x[0], n) - measured
+
+    from scipy.optimize import least_squares
 
     fit = least_squares(
         residual, x0=[1.0], bounds=([0.05], [20.0]), jac="3-point", x_scale=[1.0], xtol=1e-10

@@ -18,7 +18,6 @@ from __future__ import annotations
 from typing import NamedTuple
 
 import numpy as np
-from scipy.interpolate import CubicSpline
 
 from finkit.errors import GeometryError, InputError
 
@@ -293,6 +292,8 @@ def spreading_resistance_rectangular_series(
                 m_count[first] * one, n_count[first] * one, single[first] * one,
             )  # fmt: skip
             x = np.log(hk)
+            from scipy.interpolate import CubicSpline
+
             avg[members] = CubicSpline(np.log(nodes), f_avg)(x) / k[members]
             mx[members] = CubicSpline(np.log(nodes), f_max)(x) / k[members]
             direct[members] = False

@@ -42,7 +42,6 @@ from collections.abc import Iterable
 from numbers import Real
 
 import numpy as np
-import pint
 
 from finkit.errors import InputError
 
@@ -52,40 +51,67 @@ __all__ = [
     "from_si",
     "to_si",
     "to_si_array",
-    "ureg",
+    "ureg",  # noqa: F822 - made on first use by the module __getattr__
 ]
 
 #: Longest value text read (a quantity with its unit is a few dozen characters; pint's parser
 #: takes time growing with the square of the length, so a megabyte of text is refused first).
 MAX_TEXT = 200
 
-#: finkit's own unit registry (the only one; do not create others, do not change its settings).
-ureg = pint.UnitRegistry()
-ureg.define("CFM = foot ** 3 / minute = cfm")
-ureg.define("LFM = foot / minute = lfm = fpm")
+_REGISTRY = None
+_DIMENSIONS: dict = {}
 
 
-def _ensure_pressure_unit(name: str, pascal: float, definition: str) -> None:
+def _ureg():
+    """finkit's own unit registry (the only one; do not create others, do not change its
+    settings), made on first use: importing pint and building a registry costs about 0.3 s,
+    which ``import finkit.case`` and ``finkit --help`` should not pay (issue 15). Also reachable
+    as ``finkit.units.ureg``."""
+    global _REGISTRY
+    if _REGISTRY is None:
+        import pint
+
+        registry = pint.UnitRegistry()
+        registry.define("CFM = foot ** 3 / minute = cfm")
+        registry.define("LFM = foot / minute = lfm = fpm")
+        # Conventional water column: rho = 1000 kg/m^3, g_n = 9.80665 m/s^2 (exact by
+        # convention).
+        _ensure_pressure_unit(
+            registry,
+            "inH2O",
+            0.0254 * 1000.0 * 9.80665,
+            "inch_H2O = inch * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2"
+            " = inH2O",
+        )
+        _ensure_pressure_unit(
+            registry,
+            "mmH2O",
+            0.001 * 1000.0 * 9.80665,
+            "mm_H2O = 1e-3 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / "
+            "second ** 2 = mmH2O",
+        )
+        _DIMENSIONS.update(
+            {kind: registry.parse_units(si).dimensionality for kind, (si, _, _) in KINDS.items()}
+        )
+        _REGISTRY = registry
+    return _REGISTRY
+
+
+def __getattr__(name: str):
+    if name == "ureg":
+        return _ureg()
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
+
+def _ensure_pressure_unit(registry, name: str, pascal: float, definition: str) -> None:
     """Define ``name`` unless the registry already has it with exactly this value in Pa."""
     try:
-        value = ureg.Quantity(1.0, name).to("Pa").magnitude
+        value = registry.Quantity(1.0, name).to("Pa").magnitude
     except Exception:  # not defined in this pint version
         value = None
     if value is None or not math.isclose(value, pascal, rel_tol=1e-12):
-        ureg.define(definition)
+        registry.define(definition)
 
-
-# Conventional water column: rho = 1000 kg/m^3, g_n = 9.80665 m/s^2 (exact by convention).
-_ensure_pressure_unit(
-    "inH2O",
-    0.0254 * 1000.0 * 9.80665,
-    "inch_H2O = inch * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2 = inH2O",
-)
-_ensure_pressure_unit(
-    "mmH2O",
-    0.001 * 1000.0 * 9.80665,
-    "mm_H2O = 1e-3 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2 = mmH2O",
-)
 
 #: kind -> (SI unit, description used in messages, example written in a case file)
 KINDS: dict[str, tuple[str, str, str]] = {
@@ -111,7 +137,11 @@ BARE_TEMPERATURE_MIN = 150.0
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
 _ABSOLUTE_SCALES = {"degree_Celsius", "degree_Fahrenheit"}
 _DELTA_SCALES = {"delta_degree_Celsius", "delta_degree_Fahrenheit"}
-_DIMENSIONALITY = {kind: ureg.parse_units(si).dimensionality for kind, (si, _, _) in KINDS.items()}
+
+
+def _dimensionality(kind: str):
+    _ureg()
+    return _DIMENSIONS[kind]
 
 
 def _message(field: str, body: str) -> str:
@@ -224,7 +254,7 @@ def to_si(value, kind: str, field: str) -> float:
     if not unit_text:
         return _from_number(number, kind, field)
     try:
-        unit = ureg.parse_units(unit_text)
+        unit = _ureg().parse_units(unit_text)
     except Exception:  # pint raises several types (UndefinedUnitError, AssertionError, ...)
         raise InputError(
             _message(
@@ -234,7 +264,7 @@ def to_si(value, kind: str, field: str) -> float:
             )
         ) from None
 
-    if unit.dimensionality != _DIMENSIONALITY[kind]:
+    if unit.dimensionality != _dimensionality(kind):
         raise InputError(
             _message(field, f"expected {what}, got {_shown(value)}{_unit_hint(unit_text, kind)}")
         )
@@ -251,7 +281,7 @@ def to_si(value, kind: str, field: str) -> float:
     if kind != "temperature" and names & _ABSOLUTE_SCALES:
         # Only a lone degC/degF reaches here: pint reads them as deltas inside compound units.
         scale, name = ("degC", "Celsius") if "degree_Celsius" in names else ("degF", "Fahrenheit")
-        kelvin = ureg.Quantity(number, unit).to("K").magnitude
+        kelvin = _ureg().Quantity(number, unit).to("K").magnitude
         fix = f"'{number:g} K' or '{number:g} delta_degC'" if scale == "degC" else ""
         fix = fix or f"'{number:g} delta_degF'"
         raise InputError(
@@ -263,7 +293,7 @@ def to_si(value, kind: str, field: str) -> float:
         )
 
     try:
-        result = float(ureg.Quantity(number, unit).to(si).magnitude)
+        result = float(_ureg().Quantity(number, unit).to(si).magnitude)
     except Exception:
         raise InputError(
             _message(field, f"cannot convert {_shown(value)} to {si or 'a pure number'}")
@@ -324,10 +354,10 @@ def from_si(value_si, kind: str, unit: str):
         The value(s) expressed in ``unit``.
     """
     si, what, _ = _check_kind(kind)
-    target = ureg.parse_units(_as_delta(unit) if kind == "temperature_difference" else unit)
-    if target.dimensionality != _DIMENSIONALITY[kind]:
+    target = _ureg().parse_units(_as_delta(unit) if kind == "temperature_difference" else unit)
+    if target.dimensionality != _dimensionality(kind):
         raise InputError(f"display unit: '{unit}' is not a unit of {what}")
-    magnitude = ureg.Quantity(np.asarray(value_si, dtype=float), si).to(target).magnitude
+    magnitude = _ureg().Quantity(np.asarray(value_si, dtype=float), si).to(target).magnitude
     return float(magnitude) if np.ndim(magnitude) == 0 else magnitude
 
 
@@ -412,5 +442,5 @@ def format_quantity(value_si: float, kind: str, unit: str, decimals: int | None 
     elif kind == "temperature_difference" and unit.strip() in ("degF", "°F", "delta_degF"):
         symbol = "Δ°F"
     if symbol is None:
-        symbol = f"{ureg.parse_units(unit):~P}" or "-"
+        symbol = f"{_ureg().parse_units(unit):~P}" or "-"
     return f"{number} {symbol}" if symbol != "-" else number

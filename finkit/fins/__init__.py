@@ -27,7 +27,6 @@ from finkit.fins.analytic import (
     uniform_fin_efficiency_corrected_length,
     uniform_fin_temperature_difference,
 )
-from finkit.fins.numeric import NUMERIC_TIP_CONDITIONS, NumericFinResult, solve_fin
 
 __all__ = [
     "ANNULAR_TIP_CONDITIONS",
@@ -59,3 +58,15 @@ __all__ = [
     "uniform_fin_efficiency_corrected_length",
     "uniform_fin_temperature_difference",
 ]
+
+
+_NUMERIC = ("NUMERIC_TIP_CONDITIONS", "NumericFinResult", "solve_fin")
+
+
+def __getattr__(name: str):
+    # The BVP solver (scipy.integrate, about 0.17 s to import) loads when first asked for.
+    if name in _NUMERIC:
+        from finkit.fins import numeric
+
+        return getattr(numeric, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -19,7 +19,6 @@ from __future__ import annotations
 from typing import NamedTuple
 
 import numpy as np
-from scipy import special
 
 from finkit.errors import InputError
 from finkit.validity import ValidityRange
@@ -704,6 +703,8 @@ def infinite_fin_length(
 
 def _annular_core(r1, r2c, m):
     """Exact annular efficiency in the overflow-free scaled-Bessel form (methods.md b1)."""
+    from scipy import special  # here: scipy.special costs 0.1 s at import
+
     a = m * r1
     c = m * r2c
     decay = np.exp(2.0 * (a - c))
@@ -953,6 +954,8 @@ def straight_fin_triangular(
     .. [1] Incropera, F.P., DeWitt, D.P., Bergman, T.L., Lavine, A.S., "Fundamentals of Heat and
        Mass Transfer", 6th ed., Wiley, 2007, Table 3.5.
     """
+    from scipy import special  # here: scipy.special costs 0.1 s at import
+
     length = _positive("fin_length", fin_length, "m")
     t = _positive("fin_thickness", fin_thickness, "m")
     k = _positive("thermal_conductivity", thermal_conductivity, "W m⁻¹ K⁻¹")
@@ -1064,6 +1067,8 @@ def pin_fin_conical(
     .. [1] Incropera, F.P., DeWitt, D.P., Bergman, T.L., Lavine, A.S., "Fundamentals of Heat and
        Mass Transfer", 6th ed., Wiley, 2007, Table 3.5.
     """
+    from scipy import special  # here: scipy.special costs 0.1 s at import
+
     length = _positive("fin_length", fin_length, "m")
     d = _positive("pin_diameter", pin_diameter, "m")
     k = _positive("thermal_conductivity", thermal_conductivity, "W m⁻¹ K⁻¹")
