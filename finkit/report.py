@@ -1895,6 +1895,9 @@ def plot_fin_profile(result):
         ax.set_xlabel("Distance from the fin root [mm]")
         ax.set_ylabel("Temperature [°C]")
         ax.set_xlim(0, x_mm[-1])
+        # headroom for the root label above the hottest point (it ran into the title)
+        low, high = ax.get_ylim()
+        ax.set_ylim(low, high + 0.12 * (high - low))
         ax.set_title(
             f"η_f = {_eff(_f(sol.fin_efficiency))}, h = "
             f"{_q(p['heat_transfer_coefficient'], 'heat_transfer_coefficient', 'W/m^2/K')}, "
