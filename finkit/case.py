@@ -814,10 +814,9 @@ def text_keys() -> frozenset[str]:
 _TEXT_KEYS: frozenset[str] | None = None
 
 #: YAML's implicit tags that would turn a text field's value into something else: revision
-#: ``1.10`` into 1.1, ``010`` into 8, ``NO`` into false, ``2024-05-01`` into a date.
-_RETYPED_TAGS = frozenset(
-    f"tag:yaml.org,2002:{t}" for t in ("int", "float", "bool", "timestamp", "null")
-)
+#: ``1.10`` into 1.1, ``010`` into 8, ``NO`` into false, ``2024-05-01`` into a date. (``null``
+#: and ``~`` keep their meaning: no value.)
+_RETYPED_TAGS = frozenset(f"tag:yaml.org,2002:{t}" for t in ("int", "float", "bool", "timestamp"))
 
 
 def _construct_mapping(loader, node, deep=False):
