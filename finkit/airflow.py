@@ -51,6 +51,7 @@ __all__ = [
     "operating_point",
     "power_law_pressure_drop",
     "bypass_gap_pressure_drop",
+    "split_among_branches",
     "split_bypass",
     "split_bypass_at_approach_velocity",
     "operating_point_with_bypass",
@@ -1126,6 +1127,135 @@ def parallel_pressure_drop(branches) -> SystemPressureDrop:
         return split_bypass(q, first, rest).pressure_drop
 
     return dp
+
+
+def split_among_branches(
+    total_volume_flow,
+    sink_pressure_drop: SystemPressureDrop,
+    bypass_branches,
+    *,
+    maxiter: int = 100,
+) -> BypassSplit:
+    """:func:`split_bypass` with the bypass as several parallel branches (side and top gaps).
+
+    The same balance, ``Q_tot = Q_hs + sum Q_k`` at one pressure drop for the fins and every
+    branch, solved for all flows at once by a damped Newton iteration (:func:`_split_newton`)
+    instead of the nested split of :func:`parallel_pressure_drop`, which solves the branches'
+    own split inside every step of the outer one (ten to a hundred times more pressure-drop
+    evaluations). Any design where Newton does not meet its tolerance is solved by the nested
+    bracketed method, which stays the reference; one branch is :func:`split_bypass` itself.
+
+    Parameters
+    ----------
+    total_volume_flow : float or array_like
+        Flow approaching the sink and its gaps [m³ s⁻¹], >= 0.
+    sink_pressure_drop : callable
+        ``dp(volume_flow)`` of the finned region [Pa].
+    bypass_branches : callable or sequence of callable
+        ``dp(volume_flow)`` of each bypass branch [Pa].
+    maxiter : int, default 100
+        Iteration limit of the nested method [-].
+
+    Returns
+    -------
+    BypassSplit
+        As :func:`split_bypass`; ``bypass_volume_flow`` is the sum over the branches.
+    """
+    branches = (bypass_branches,) if callable(bypass_branches) else tuple(bypass_branches)
+    if len(branches) == 1:
+        return split_bypass(total_volume_flow, sink_pressure_drop, branches[0], maxiter=maxiter)
+    q_total = np.asarray(total_volume_flow, dtype=float)
+    if np.any(q_total < 0):
+        raise InputError(f"total_volume_flow = {total_volume_flow!r} m³/s; must be >= 0")
+    a, b, ok = _split_newton(q_total, sink_pressure_drop, branches)
+    if np.all(ok):
+        dp = np.asarray(sink_pressure_drop(a), float)
+        return BypassSplit(a[()], b[()], np.array(dp)[()], np.ones(np.shape(a), bool)[()])
+    nested = split_bypass(
+        q_total, sink_pressure_drop, parallel_pressure_drop(branches), maxiter=maxiter
+    )
+    shape = np.broadcast_shapes(np.shape(a), np.shape(nested.sink_volume_flow))
+    a, b, ok = (np.broadcast_to(v, shape) for v in (a, b, ok))
+    dp_newton = np.asarray(sink_pressure_drop(a), float)
+    return BypassSplit(
+        np.where(ok, a, nested.sink_volume_flow)[()],
+        np.where(ok, b, nested.bypass_volume_flow)[()],
+        np.where(ok, dp_newton, nested.pressure_drop)[()],
+        (ok | np.asarray(nested.is_converged))[()],
+    )
+
+
+def _split_newton(q_total, dp_sink, branches, maxiter=40):
+    """Damped Newton on the sink flow a and the branch flows b_k at a given total flow Q.
+
+    Residuals: ``r_k = dp_sink(a) - dp_k(b_k)`` for each branch and ``r_Q = a + sum b - Q``.
+    The Jacobian is an arrow matrix, eliminated in closed form (slopes by forward differences):
+    ``da = -(r_Q + sum r_k/s_k) / (1 + s_a sum 1/s_k)``, ``db_k = (r_k + s_a da)/s_k``. A
+    branch closed for a design (infinite pressure drop at a small flow) carries no flow there.
+    Returns ``(a, b_total, converged)`` of the batch shape; converged where every residual is
+    below 1e-9 of the sink's pressure drop at the whole flow and the last step below 1e-10 Q.
+    """
+    shape = np.broadcast_shapes(
+        np.shape(q_total), np.shape(np.asarray(dp_sink(np.asarray(q_total, float)), float))
+    )
+    q = np.array(np.broadcast_to(q_total, shape), float)
+    positive = q > 0
+    q_safe = np.where(positive, q, 1.0)
+    step = 1e-7 * q_safe
+    with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
+        dp_scale = np.abs(np.asarray(dp_sink(q_safe), float))
+        probe = 1e-6 * q_safe
+        is_open = [
+            np.isfinite(np.asarray(f(probe), float)) & np.ones(shape, bool) for f in branches
+        ]
+    count = max(sum(1 for o in is_open), 1)
+    a = 0.6 * q_safe
+    b = [np.where(o, 0.4 * q_safe / count, 0.0) for o in is_open]
+    converged = np.zeros(shape, bool)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+
+        def residuals(a, b):
+            fa = np.asarray(dp_sink(a), float)
+            fb = [
+                np.where(o, np.asarray(f(x), float), fa)
+                for f, x, o in zip(branches, b, is_open, strict=True)
+            ]
+            return fa, fb, [fa - y for y in fb]
+
+        fa, fb, r = residuals(a, b)
+        for _ in range(maxiter):
+            r_q = a + sum(b) - q_safe
+            sa = (np.asarray(dp_sink(a + step), float) - fa) / step
+            inv = [
+                np.where(o, step / (np.asarray(f(x + step), float) - y), 0.0)
+                for f, x, y, o in zip(branches, b, fb, is_open, strict=True)
+            ]
+            sum_r = sum(np.where(o, rk * i, 0.0) for rk, i, o in zip(r, inv, is_open, strict=True))
+            da = -(r_q + sum_r) / (1.0 + sa * sum(inv))
+            db = [
+                np.where(o, (rk + sa * da) * i, 0.0)
+                for rk, i, o in zip(r, inv, is_open, strict=True)
+            ]
+            # damping: 0 < a, 0 <= b_k, then back onto a + sum b = Q
+            new_a = np.clip(a + da, 1e-3 * a, None)
+            new_b = [np.clip(x + d, 0.0, None) for x, d in zip(b, db, strict=True)]
+            scale = q_safe / (new_a + sum(new_b))
+            new_a, new_b = new_a * scale, [x * scale for x in new_b]
+            moved = np.abs(new_a - a)
+            for x, y in zip(new_b, b, strict=True):
+                moved = np.maximum(moved, np.abs(x - y))
+            a, b = new_a, new_b
+            fa, fb, r = residuals(a, b)
+            ok = moved <= 1e-10 * q_safe
+            for rk in r:
+                ok &= np.abs(rk) <= 1e-9 * dp_scale
+            converged = ok & np.isfinite(sum(r))
+            if np.all(converged | ~np.isfinite(sum(r))):
+                break
+    zero = ~positive
+    a = np.where(zero, 0.0, a)
+    b_total = np.where(zero, 0.0, sum(b))
+    return a, b_total, converged | zero
 
 
 def _bypass_newton(fan, pressure_ratio, dp_sink, dp_bypass, extra, maxiter=40):

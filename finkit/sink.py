@@ -45,8 +45,7 @@ from finkit.airflow import (
     bypass_gap_pressure_drop,
     operating_point,
     operating_point_with_bypass,
-    parallel_pressure_drop,
-    split_bypass,
+    split_among_branches,
 )
 from finkit.correlations import forced, natural
 from finkit.errors import InputError, PropertyRangeError, SolverError
@@ -580,10 +579,9 @@ def solve_airflow(
 
     if gaps is not None:
         bypass_branches = _bypass_pressure_drop(geometry, bypass, gaps, rho, mu)
-        dp_bypass = parallel_pressure_drop(bypass_branches)
 
         def system(q):
-            return split_bypass(q, dp_sink, dp_bypass).pressure_drop
+            return split_among_branches(q, dp_sink, bypass_branches).pressure_drop
 
     else:
         system = dp_sink
@@ -635,7 +633,7 @@ def solve_airflow(
         q_bypass = fan_with_bypass.bypass_volume_flow
         dp = fan_with_bypass.sink_pressure_drop
     elif gaps is not None:
-        split = split_bypass(total, dp_sink, dp_bypass)
+        split = split_among_branches(total, dp_sink, bypass_branches)
         q_sink, q_bypass, dp = split.sink_volume_flow, split.bypass_volume_flow, split.pressure_drop
     else:
         q_sink, q_bypass = total, np.zeros_like(total)

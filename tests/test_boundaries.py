@@ -362,3 +362,45 @@ def test_fan_with_two_bypass_branches_one_system_or_nested():
     assert np.all(joint.is_converged) and np.all(nested.is_converged)
     np.testing.assert_allclose(joint.sink_volume_flow, nested.sink_volume_flow, rtol=1e-6)
     np.testing.assert_allclose(joint.volume_flow, nested.volume_flow, rtol=1e-6)
+
+
+@pytest.mark.identity
+def test_given_flow_split_among_branches_is_the_nested_split():
+    # The given-flow split solves the fins, the side gaps and the top gap as one Newton system
+    # (issue 15); the nested split of parallel_pressure_drop stays the reference and must give
+    # the same flows, for several flows at once, a zero flow and a closed top gap (top = 0).
+    from finkit.airflow import (
+        _split_newton,
+        parallel_pressure_drop,
+        split_among_branches,
+        split_bypass,
+    )
+
+    air = air_properties(AIR.inlet_temperature, AIR.pressure)
+    rho, mu = air.density, air.dynamic_viscosity
+    total = np.array([0.0, 2.0, 10.0, 20.0, 40.0]) * CFM
+    for side, top in [(0.001, 0.006), (0.004, 0.003), (0.006, 0.0)]:
+
+        def sink(q, top=top):
+            return sink_pressure_drop(PLATE, q, rho, mu, is_shrouded=top <= 0)
+
+        def side_dp(q, side=side):
+            return bypass_gap_pressure_drop(
+                q, 2 * side * PLATE.fin_height, 2 * side, PLATE.base_length, rho, mu
+            )
+
+        def top_dp(q, side=side, top=top):
+            if top <= 0:
+                return np.where(np.asarray(q) > 0, np.inf, 0.0)
+            return bypass_gap_pressure_drop(
+                q, top * (PLATE.base_width + 2 * side), 2 * top, PLATE.base_length, rho, mu
+            )
+
+        joint = split_among_branches(total, sink, (side_dp, top_dp))
+        assert np.all(_split_newton(total, sink, (side_dp, top_dp))[2])  # Newton, no fallback
+        nested = split_bypass(total, sink, parallel_pressure_drop((side_dp, top_dp)))
+        assert np.all(joint.is_converged)
+        np.testing.assert_allclose(joint.sink_volume_flow, nested.sink_volume_flow, rtol=1e-7)
+        np.testing.assert_allclose(joint.bypass_volume_flow, nested.bypass_volume_flow, atol=1e-12)
+        np.testing.assert_allclose(joint.pressure_drop, nested.pressure_drop, rtol=1e-7)
+        assert joint.sink_volume_flow[0] == 0.0 and joint.pressure_drop[0] == 0.0
