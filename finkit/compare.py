@@ -16,6 +16,7 @@ Used by ``finkit compare`` and by a note whose case names its ``previous_revisio
 from __future__ import annotations
 
 import copy
+import hashlib
 import json
 import os
 from collections.abc import Mapping
@@ -82,6 +83,58 @@ def _read_json(path: Path) -> dict:
     return data
 
 
+#: Solved case files and governing margins, by content: a batch solves the base case's previous
+#: revision once in its parent and every variant's note reuses it (the model is pure, so the
+#: same text gives the same numbers; the key holds the whole text, so an edited file is solved
+#: again).
+_CASE_FILES: dict[tuple[str, str], tuple[dict, dict]] = {}
+_MARGINS: dict[str, float] = {}
+_CACHE_SIZE = 64
+
+
+def _solved_case_file(path: Path) -> tuple[dict, dict]:
+    """(entered, results payload) of a case file, solved once per content."""
+    from finkit.case import load_case
+    from finkit.model import run_case
+
+    try:
+        digest = hashlib.sha256(path.read_bytes()).hexdigest()
+    except OSError as exc:
+        raise InputError(f"compare: case file {str(path)!r} cannot be read: {exc}") from None
+    key = (str(path.resolve()), digest)
+    if key not in _CASE_FILES:
+        case = load_case(path)
+        if len(_CASE_FILES) >= _CACHE_SIZE:
+            _CASE_FILES.clear()
+        _CASE_FILES[key] = (case.entered, run_case(case).to_json_dict())
+    entered, payload = _CASE_FILES[key]
+    return copy.deepcopy(entered), copy.deepcopy(payload)
+
+
+def prefetch(previous_source: str | os.PathLike, entered: dict) -> None:
+    """Solve, into the caches, what comparing a case with its previous revision will solve.
+
+    That is the previous revision (a case file is solved) and the governing margin of every
+    case the attribution tries; none of it depends on the current case's own results, so
+    ``finkit note`` runs it in a second process while it solves the case
+    (:func:`cached_solutions`, :func:`add_cached_solutions`).
+    """
+    old = load_revision(previous_source)
+    compare(old, Revision("prefetch", "case", copy.deepcopy(entered), {}, True))
+
+
+def cached_solutions() -> tuple[dict, dict]:
+    """The content-keyed caches (solved case files, governing margins), to hand to a process."""
+    return dict(_CASE_FILES), dict(_MARGINS)
+
+
+def add_cached_solutions(solutions: tuple[dict, dict]) -> None:
+    """Add what :func:`cached_solutions` returned in another process (same finkit)."""
+    case_files, margins = solutions
+    _CASE_FILES.update(case_files)
+    _MARGINS.update(margins)
+
+
 def load_revision(source: str | os.PathLike) -> Revision:
     """A revision from a case file, a note folder or a results.json.
 
@@ -91,7 +144,6 @@ def load_revision(source: str | os.PathLike) -> Revision:
         Not found, or none of the three; one line naming the path.
     """
     from finkit.case import case_inputs_sha256, load_case
-    from finkit.model import run_case
 
     path = Path(source)
     template = None
@@ -113,9 +165,8 @@ def load_revision(source: str | os.PathLike) -> Revision:
     elif path.suffix in (".yaml", ".yml"):
         if not path.is_file():
             raise InputError(f"compare: case file {str(path)!r} not found")
-        case = load_case(path)
-        payload = run_case(case).to_json_dict()
-        return Revision(str(source), "case file", case.entered, payload, True)
+        entered, payload = _solved_case_file(path)
+        return Revision(str(source), "case file", entered, payload, True)
     else:
         raise InputError(
             f"compare: got {str(source)!r}; give a case file (.yaml), a note folder or a "
@@ -467,11 +518,15 @@ def _value(block: Mapping | None, name: str) -> Any:
 
 def _governing_margin(entered: dict) -> float:
     from finkit.case import load_case
-    from finkit.model import run_case
+    from finkit.model import governing_results
 
     data = {k: v for k, v in copy.deepcopy(entered).items() if k not in _NOT_SOLVED}
-    result = run_case(load_case(data))
-    return float(result.results["temperature_margin"])
+    key = json.dumps(data, sort_keys=True, default=str)
+    if key not in _MARGINS:
+        if len(_MARGINS) >= _CACHE_SIZE:
+            _MARGINS.clear()
+        _MARGINS[key] = float(governing_results(load_case(data))["temperature_margin"])
+    return _MARGINS[key]
 
 
 def _apply(data: dict, path: tuple, value: Any, is_removed: bool) -> None:

@@ -631,15 +631,7 @@ def run_case(case) -> CaseResult:
     """Solve a validated case at every operating condition and check it against its limit."""
     if getattr(case, "kind", "heat-sink") == "single-fin":
         return _run_single_fin(case)
-    from finkit.review import run_scenarios, scenarios_from_blocks
-
-    inputs = sink_inputs(case)
-    scenarios = scenarios_from_blocks(case.scenarios) if case.scenarios else ()
-    try:
-        inputs, calibration = _calibrated(case, inputs)
-        table = run_scenarios(inputs, scenarios, case.air.flow.fan)
-    except PropertyRangeError as exc:
-        raise _named_geometry(case, exc) from None
+    inputs, scenarios, calibration, table = _scenario_table(case)
     governing, nominal = table.governing_row, table.rows[0]
     review = _review(case, inputs, governing.inputs, table, calibration)
     warnings = _merged_warnings(table, review.flags)
@@ -660,6 +652,35 @@ def run_case(case) -> CaseResult:
         inputs=inputs,
         review=review,
     )
+
+
+def _scenario_table(case, *, fit_unapplied: bool = True):
+    """(inputs, scenarios, calibration, table): every operating condition of a heat-sink case
+    solved, calibrated as the case asks. ``fit_unapplied=False`` skips a calibration fit that
+    the case does not apply (it changes no result; ``calibration`` is then None)."""
+    from finkit.review import run_scenarios, scenarios_from_blocks
+
+    inputs = sink_inputs(case)
+    scenarios = scenarios_from_blocks(case.scenarios) if case.scenarios else ()
+    applied = case.calibration is not None and case.calibration.apply
+    try:
+        if fit_unapplied or applied:
+            inputs, calibration = _calibrated(case, inputs)
+        else:
+            calibration = None
+        table = run_scenarios(inputs, scenarios, case.air.flow.fan)
+    except PropertyRangeError as exc:
+        raise _named_geometry(case, exc) from None
+    return inputs, scenarios, calibration, table
+
+
+def governing_results(case) -> dict[str, Any]:
+    """The results at the governing condition, as ``run_case(case).results``, without the
+    review, uncertainty and model-form work a note shows, nor a calibration fit the case does
+    not apply: what a revision comparison needs for each trial case it solves."""
+    if getattr(case, "kind", "heat-sink") == "single-fin":
+        return dict(run_case(case).results)
+    return dict(_scenario_table(case, fit_unapplied=False)[3].governing_row.results)
 
 
 def _calibrated(case, inputs: SinkInputs):
@@ -1160,29 +1181,43 @@ def note_sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
 
     The ends of a plotted range can leave the air-property range at a hot condition (a very
     low flow at the stated power heats the air past 500 K). The whole range is solved in one
-    call first; only if that fails is it solved point by point, and the points that fail are
-    NaN (a gap in the curve) instead of losing the figure. If every point fails, the error of
-    the first is raised.
+    call first; only if that fails is it split in halves, each solved in one call and split
+    again where it fails, down to single points, so that the points that fail are NaN (a gap
+    in the curve) instead of losing the figure, at the cost of a few calls rather than one per
+    point. If every point fails, the error of the first is raised.
     """
+    values = np.asarray(values, float)
     try:
         return sweep(inputs, name, values)
     except PropertyRangeError:
-        values = np.asarray(values, float)
-        rows: list[dict[str, np.ndarray] | None] = []
-        first_error = None
-        for value in values.ravel():
-            try:
-                rows.append(sweep(inputs, name, np.array([value])))
-            except PropertyRangeError as exc:
-                first_error = first_error or exc
-                rows.append(None)
+        flat = values.ravel()
+        rows: list[dict[str, np.ndarray] | None] = [None] * flat.size
+        errors: list[PropertyRangeError] = []
+
+        def solve_part(lo: int, hi: int, known_bad: bool = False) -> None:
+            if not known_bad:
+                try:
+                    part = sweep(inputs, name, flat[lo:hi])
+                except PropertyRangeError as exc:
+                    if hi - lo == 1:
+                        errors.append(exc)
+                        return
+                else:
+                    for i in range(lo, hi):
+                        rows[i] = {k: np.ravel(v)[i - lo] for k, v in part.items()}
+                    return
+            mid = (lo + hi) // 2
+            solve_part(lo, mid)
+            solve_part(mid, hi)
+
+        solve_part(0, flat.size, known_bad=True)
         solved = [r for r in rows if r is not None]
         if not solved:
-            raise first_error from None
+            raise errors[0] from None
         out = {
-            key: np.array(
-                [np.nan if r is None else float(np.ravel(r[key])[0]) for r in rows]
-            ).reshape(values.shape)
+            key: np.array([np.nan if r is None else float(r[key]) for r in rows]).reshape(
+                values.shape
+            )
             for key in solved[0]
         }
         out["values"] = values
@@ -1272,20 +1307,23 @@ def single_fin_profiles(case, points: int = 101) -> dict[str, Any]:
     return out
 
 
-def volume_flow_for_power(inputs: SinkInputs, points: int = 240) -> float | None:
+def volume_flow_for_power(inputs: SinkInputs, points: int = 33) -> float | None:
     """Smallest total volume flow at which the allowable power reaches the stated power.
 
     The allowable power (limit node at the limit less the required margin) is evaluated on a
     logarithmic grid of total volume flows from 1/20 to 20 times the case's operating flow, with
-    the case's bypass, and the crossing with the stated power is interpolated linearly (grid
-    step about 2.5 %). Forced convection only.
+    the case's bypass (33 points: steps of about 21 %); in the first grid interval where it
+    reaches the stated power, the crossing is solved to 0.1 % of the flow (Brent's method on the
+    logarithm of the flow). A crossing narrower than one grid step could be missed; the flow
+    returned is then larger than the least one, which errs on the safe side for a required flow.
+    Forced convection only.
 
     Parameters
     ----------
     inputs : SinkInputs
         A forced-convection case's inputs. [-]
     points : int, optional
-        Grid points. [-]
+        Points of the coarse grid. [-]
 
     Returns
     -------
@@ -1304,7 +1342,15 @@ def volume_flow_for_power(inputs: SinkInputs, points: int = 240) -> float | None
     i = int(above[0])
     if i == 0:
         return float(grid[0])
-    return float(np.interp(target, power[i - 1 : i + 1], grid[i - 1 : i + 1]))
+    from scipy.optimize import brentq
+
+    def short(log_q: float) -> float:
+        q = np.array([np.exp(log_q)])
+        return float(note_sweep(inputs, "airflow", q)["allowable_power"][0]) - target
+
+    if not (np.isfinite(power[i - 1]) and power[i - 1] < target):
+        return float(grid[i])
+    return float(np.exp(brentq(short, np.log(grid[i - 1]), np.log(grid[i]), xtol=1e-3)))
 
 
 #: Model-form check of a note (:func:`model_form_check`): cells across the smaller base side on
