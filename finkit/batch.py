@@ -870,8 +870,11 @@ def _render_child(task: Mapping[str, Any]) -> dict[str, Any]:
     from finkit.notes import NoteExecutionError, NoteRenderError, render_note
 
     _reseed()
+    stages: dict[str, float] = {}
     try:
+        started = time.perf_counter()
         km = _inprocess_kernel_manager()
+        stages["start kernel"] = time.perf_counter() - started
         render_note(
             task["case"],
             task["out_dir"],
@@ -881,6 +884,7 @@ def _render_child(task: Mapping[str, Any]) -> dict[str, Any]:
             timeout=task["timeout"],
             paper=task["paper"],
             kernel_manager=km,
+            stages=stages,
         )
     except NoteExecutionError as exc:
         return {"ok": False, "kind": "template", "error": str(exc)}
@@ -894,7 +898,7 @@ def _render_child(task: Mapping[str, Any]) -> dict[str, Any]:
             "kind": "exception",
             "error": f"{type(exc).__name__}: {_one_line(exc)}",
         }
-    return {"ok": True}
+    return {"ok": True, "stages": stages}
 
 
 def _reseed() -> None:
@@ -1033,7 +1037,8 @@ def _warm_up(templates: Iterable[Path], show_code: bool, paper: str, validated: 
 
     Also runs the model once on the base case (``validated``), so that the modules and the
     read-only tables it loads on first use (air properties, materials) are in memory before the
-    children fork. The model is pure: this leaves no state a note could see.
+    children fork, and fills the content-keyed caches of the previous revision's solution and
+    of the equations. The model is pure: this leaves no state a note could see.
     """
     import importlib
 
@@ -1052,9 +1057,15 @@ def _warm_up(templates: Iterable[Path], show_code: bool, paper: str, validated: 
     notes._library_versions()
     if validated is not None:
         try:
+            from finkit import report
             from finkit.model import run_case
 
-            run_case(validated).to_json_dict()
+            base = run_case(validated)
+            base.to_json_dict()
+            # Solved once here, reused by every child: the previous revision the variants are
+            # compared with, and the method section's equations (content-keyed caches).
+            report.changes_since(base)
+            report.method_section(base)
         except Exception:  # noqa: BLE001 - the variants report their own model errors
             pass
 
@@ -1684,6 +1695,7 @@ def _run_batch_locked(
                 "row": task["row"],
                 "note_time": task["note_time"],
                 "seconds": round(seconds, 3),
+                "stages": {k: round(float(v), 4) for k, v in payload.get("stages", {}).items()},
             }
             notes.atomic_write(folder / STATE_FILE, json.dumps(state, indent=2))
         else:

@@ -496,6 +496,9 @@ def main(argv: list[str] | None = None) -> int:
     3 an internal error or a problem of the environment (disk, permissions): one line naming
     it and the log file with the details, never a traceback (``--debug`` shows it).
     """
+    from finkit.notes import skip_unused_slow_imports
+
+    skip_unused_slow_imports()
     parser = build_parser()
     try:
         args = parser.parse_args(argv)

@@ -28,7 +28,9 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     out = Path(args.out)
 
-    from finkit.notes import render_note
+    from finkit.notes import render_note, skip_unused_slow_imports
+
+    skip_unused_slow_imports()
 
     cases = sorted(DEMO_CASES.glob("*.yaml"))
     failed = 0

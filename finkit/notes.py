@@ -35,8 +35,11 @@ import platform
 import re
 import secrets
 import shutil
+import signal
 import sys
 import tempfile
+import threading
+import time
 from collections.abc import Callable, Mapping
 from functools import lru_cache
 from html.parser import HTMLParser
@@ -92,6 +95,21 @@ _WINDOWS_RESERVED = {"CON", "PRN", "AUX", "NUL"} | {
 }
 
 _LIBRARIES = ("numpy", "scipy", "CoolProp", "pint", "matplotlib", "papermill", "nbconvert")
+
+
+def skip_unused_slow_imports() -> None:
+    """Keep a finkit command from importing an optional package it never uses (process-wide).
+
+    nbformat validates notebooks with jsonschema, and jsonschema imports ``rfc3987_syntax``
+    whenever it is installed (JupyterLab's event system pulls it in), only to check the "iri"
+    string format. Importing it compiles about 40 grammars: 0.8-0.9 s of every ``finkit note``
+    and ``finkit batch`` process on a 2-core machine (measured, issue 15). Notebook schemas use
+    no IRI format, so a command blocks that import; jsonschema treats the package as absent, as
+    on an installation without JupyterLab. Called by the command-line entry points only, so a
+    program that imports finkit as a library keeps its own choice. A no-op when the package was
+    already imported.
+    """
+    sys.modules.setdefault("rfc3987_syntax", None)
 
 
 class NoteExecutionError(FinkitError):
@@ -336,8 +354,9 @@ def template_path(kind: str, template: str | os.PathLike | None = None) -> Path:
     return path
 
 
-def _check_template(path: Path) -> None:
-    """The template has one cell tagged ``parameters`` that defines ``case`` and ``note_time``."""
+def _check_template(path: Path) -> set[str]:
+    """The template has one cell tagged ``parameters`` that defines ``case`` and ``note_time``;
+    returns the names that cell defines."""
     import nbformat
     import papermill
 
@@ -354,6 +373,7 @@ def _check_template(path: Path) -> None:
             f"template {path.name}: the parameters cell does not define "
             f"{', '.join(sorted(missing))}"
         )
+    return names
 
 
 def ensure_kernel(name: str = KERNEL_NAME) -> str:
@@ -764,10 +784,244 @@ def render_html(nb: Any, *, show_code: bool = False, paper: str = "A4") -> str:
 # The note
 
 
-def _default_results(validated: Any) -> Mapping[str, Any]:
-    from finkit.model import run_case
+#: File in a note's scratch folder that carries the parent's solved case to the kernel.
+SOLVED_PICKLE = "solved.pickle"
+_SOLVED_FORMAT = 1
 
-    return run_case(validated).to_json_dict()
+
+def write_solved(path: Path, validated: Any, result: Any, **extra: Any) -> Path:
+    """Store the parent's solved case for the note kernel (:func:`read_solved`).
+
+    ``finkit note`` solves the case before any cell runs (so a case the model rejects fails
+    fast) and writes results.json from that solution; the template's first cell takes the same
+    result from this file instead of solving the case a second time (issue 15). The file holds
+    the case's input hash and the finkit version, and lives in the note's scratch folder, which
+    is removed with the run. ``extra`` items (e.g. the comparison with the previous revision,
+    which solves that revision) travel with it.
+    """
+    import pickle
+
+    from finkit import __version__
+
+    payload = {
+        **extra,
+        "format": _SOLVED_FORMAT,
+        "finkit": __version__,
+        "inputs_sha256": inputs_sha256(validated),
+        "result": result,
+    }
+    atomic_write(path, pickle.dumps(payload, protocol=pickle.HIGHEST_PROTOCOL))
+    return path
+
+
+def read_solved(path: str | os.PathLike | None, validated: Any) -> dict | None:
+    """What :func:`write_solved` stored for this very case (``payload["result"]`` and the extra
+    items), or None.
+
+    None when no path is given, the file is missing (a note re-run by hand after its scratch
+    folder is gone), unreadable, written by another finkit version or for other inputs: the
+    caller then solves the case itself. Never a partly matching result.
+    """
+    if not path:
+        return None
+    import pickle
+
+    from finkit import __version__
+
+    try:
+        with open(path, "rb") as handle:
+            payload = pickle.load(handle)
+    except (OSError, EOFError, pickle.UnpicklingError, AttributeError, ImportError, TypeError):
+        return None
+    if not (
+        isinstance(payload, dict)
+        and payload.get("format") == _SOLVED_FORMAT
+        and payload.get("finkit") == __version__
+        and payload.get("inputs_sha256") == inputs_sha256(validated)
+        and payload.get("result") is not None
+    ):
+        return None
+    return payload
+
+
+#: Modules a note kernel imports while the parent solves the case: those the template's first
+#: cells import anyway (the report module, the classes of the solved result it unpickles, the
+#: fan curve's interpolator, matplotlib's figure), then the unit registry the first cell makes.
+#: Imported by name, so that no name is bound in the notebook's namespace.
+_WARM_MODULES = (
+    "finkit.report",
+    "finkit.model",
+    "finkit.review",
+    "finkit.uncertainty",
+    "finkit.compare",
+    "scipy.interpolate",
+    "matplotlib.figure",
+    "matplotlib.backends.backend_agg",
+)
+_WARM_IMPORTS = (
+    f"for __finkit_module in {_WARM_MODULES!r}:\n"
+    "    __import__(__finkit_module)\n"
+    "del __finkit_module\n"
+    "__import__('finkit.units', fromlist=['_ureg'])._ureg()\n"
+)
+
+
+def _fork_is_safe() -> bool:
+    """A fork copies only the calling thread: safe only while this process runs no other."""
+    return hasattr(os, "fork") and threading.active_count() == 1
+
+
+class _ComparisonPrefetch:
+    """Solve the cases of the comparison with the previous revision in a forked process.
+
+    Comparing a case with its previous revision solves that revision and the cases its
+    attribution tries (:func:`finkit.compare.prefetch`), none of which needs the current case's
+    results; a child forked before the kernel starts solves them while the parent solves the
+    case, on the second core, and hands the solutions back through a file in the scratch
+    folder (issue 15). Nothing but the content-keyed solution caches comes back; anything that
+    goes wrong leaves the parent to solve them itself, as before.
+    """
+
+    def __init__(self, validated: Any, scratch: Path):
+        self.pid = None
+        self.path = scratch / "prefetch.pickle"
+        previous = getattr(validated, "previous_revision", None)
+        if previous is None or not _fork_is_safe():
+            return
+        entered = getattr(validated, "entered", None)
+        pid = os.fork()
+        if pid == 0:  # the child: solve, write, leave without running any exit handler
+            status = 1
+            try:
+                import pickle
+
+                from finkit import compare
+
+                compare.prefetch(previous.source, entered)
+                atomic_write(self.path, pickle.dumps(compare.cached_solutions()))
+                status = 0
+            except BaseException:  # noqa: BLE001 - the parent solves them itself
+                pass
+            finally:
+                os._exit(status)
+        self.pid = pid
+
+    def collect(self, timeout: float) -> None:
+        """Wait for the child (at most ``timeout``) and take its solutions into the caches."""
+        if self.pid is None:
+            return
+        deadline = time.monotonic() + timeout
+        while time.monotonic() < deadline:
+            done, _ = os.waitpid(self.pid, os.WNOHANG)
+            if done:
+                self.pid = None
+                break
+            time.sleep(0.01)
+        self.stop()
+        try:
+            import pickle
+
+            from finkit import compare
+
+            with open(self.path, "rb") as handle:
+                compare.add_cached_solutions(pickle.load(handle))
+        except Exception:  # noqa: BLE001 - missing or damaged: solved in the parent
+            pass
+
+    def stop(self) -> None:
+        """End the child if it still runs (a failed note, or one past its time)."""
+        if self.pid is None:
+            return
+        try:
+            os.kill(self.pid, signal.SIGKILL)
+            os.waitpid(self.pid, 0)
+        except OSError:
+            pass
+        self.pid = None
+
+
+def _warm_html_exporter(show_code: bool) -> threading.Thread:
+    """Build and exercise the note's HTML exporter in a thread while the kernel runs the cells
+    (imports and template compilation, about 0.4 s that the parent would otherwise pay after
+    the cells); :func:`render_html` then finds it built."""
+
+    def warm() -> None:
+        try:
+            import nbformat
+
+            nb = nbformat.v4.new_notebook()
+            nb.cells = [nbformat.v4.new_markdown_cell("warm-up")]
+            nb.metadata["finkit"] = {"status": "complete", "provenance": {"case_id": "warm-up"}}
+            render_html(nb, show_code=show_code)
+        except Exception:  # noqa: BLE001 - the real render reports any problem
+            pass
+
+    thread = threading.Thread(target=warm, name="finkit-html-warm-up", daemon=True)
+    thread.start()
+    return thread
+
+
+class _EarlyKernel:
+    """A note's own kernel, started before the case is solved.
+
+    A fresh kernel process per note, as papermill would start it, only earlier: it boots and
+    imports the modules the note's first cells need (:data:`_WARM_IMPORTS`, a silent request
+    that leaves nothing in the notebook's namespace or history) while the parent solves the
+    case; on two cores that hides the kernel's start-up (issue 15). No state reaches the note
+    that the template's cells did not make: the imports are the ones the cells do.
+    """
+
+    def __init__(self, kernel: str, cwd: Path, case_id: str):
+        # The asynchronous manager papermill's client makes for itself: with a blocking one,
+        # nbclient's per-cell time limit is never applied.
+        from jupyter_client.manager import AsyncKernelManager
+        from jupyter_core.utils import run_sync
+
+        self._run_sync = run_sync
+        self.manager = AsyncKernelManager(kernel_name=kernel)
+        self._client = None
+        self._warm_id = None
+        try:
+            run_sync(self.manager.start_kernel)(cwd=str(cwd))
+            self._client = self.manager.client()
+            self._client.start_channels()
+            self._warm_id = self._client.execute(_WARM_IMPORTS, silent=True, store_history=False)
+        except Exception as exc:  # noqa: BLE001 - reported as the note's failure, one line
+            self.stop()
+            raise NoteExecutionError(
+                f"note for case {case_id!r}: the kernel {kernel!r} could not start: "
+                f"{_one_line(exc)}"
+            ) from exc
+
+    def ready(self, timeout: float = 60.0) -> Any:
+        """Wait for the warm-up to finish (never more than ``timeout``); the kernel manager."""
+        import queue
+
+        client, self._client = self._client, None
+        if client is not None:
+            deadline = time.monotonic() + timeout
+            try:
+                get = self._run_sync(client.get_shell_msg)
+                while time.monotonic() < deadline:
+                    reply = get(timeout=max(deadline - time.monotonic(), 0.01))
+                    if reply.get("parent_header", {}).get("msg_id") == self._warm_id:
+                        break
+            except queue.Empty:  # a slow kernel: papermill waits for it as usual
+                pass
+            finally:
+                client.stop_channels()
+        return self.manager
+
+    def stop(self) -> None:
+        """Stop the kernel at once: the note is complete or has failed."""
+        if self._client is not None:
+            self._client.stop_channels()
+            self._client = None
+        try:
+            if self.manager.has_kernel:
+                self._run_sync(self.manager.shutdown_kernel)(now=True)
+        except Exception:  # noqa: BLE001 - an already dead kernel is what we wanted
+            pass
 
 
 def _one_line(text: str, limit: int = 160) -> str:
@@ -824,11 +1078,12 @@ def render_note(
     validate: bool = True,
     results: Callable[[Any], Mapping[str, Any]] | None = None,
     kernel_manager: Any = None,
+    stages: dict[str, float] | None = None,
 ) -> NoteOutput:
     """Execute the note template for a case and write a dated, self-contained HTML note.
 
     Steps: check the case (``prepare_case``) and its folder name, compute the results (before
-    any kernel starts, so a case the model rejects fails fast), execute the template with
+    any cell runs, so a case the model rejects fails fast), execute the template with
     papermill in a scratch folder injecting ``case`` and ``note_time``, record the provenance in
     the notebook metadata, render the HTML, check it (:func:`check_note_html`), then write
     ``results.json``, ``note.ipynb`` and last ``note.html`` into ``out_dir/<case_id>/``, each
@@ -858,11 +1113,17 @@ def render_note(
         Validate with ``finkit.case.load_case`` (see :func:`prepare_case`). [-]
     results : callable, optional
         ``results(validated_case) -> mapping`` written to ``results.json``; default
-        ``finkit.model.run_case(case).to_json_dict()``. [-]
+        ``finkit.model.run_case(case).to_json_dict()``, whose solution is also handed to the
+        kernel when the template takes a ``solved`` parameter (:func:`write_solved`), so the
+        note never solves its case twice. [-]
     kernel_manager : jupyter_client.KernelManager, optional
         Execute with this kernel manager (passed to papermill as ``km``) instead of starting
         the kernel ``kernel_name``; :mod:`finkit.batch` passes an in-process kernel here.
-        Default: a new kernel process. [-]
+        Default: a new kernel process, started before the case is solved so that it boots
+        meanwhile, and stopped when the notebook has run. [-]
+    stages : dict, optional
+        Filled with the seconds each stage took (:data:`NOTE_STAGES`), for benchmarks and the
+        batch's timing table. [s]
 
     Returns
     -------
@@ -885,66 +1146,109 @@ def render_note(
     ``note_time`` and ``provenance`` (the dict of :func:`provenance`, also stored in the notebook
     metadata as ``nb.metadata["finkit"]["provenance"]`` and shown in the note's footer).
     """
+    clock = _StageClock(stages)
     prepared = prepare_case(case, validate=validate)
     folder = case_folder(out_dir, prepared.case_id)
     template_file = template_path(prepared.kind, template)
-    _check_template(template_file)
+    template_parameters = _check_template(template_file)
     note_time = _note_time(execution_time)
     _check_paper(paper)
     if not (isinstance(timeout, int | float) and timeout > 0):
         raise InputError(f"timeout={timeout!r} s is not allowed; use a positive number of seconds")
 
-    result_dict = dict((results or _default_results)(prepared.validated))
-    prov = provenance(prepared.validated, template=template_file.name, note_time=note_time)
-    clash = {"note_time", "provenance"} & set(result_dict)
-    if clash:
-        raise NoteRenderError(f"results already hold the keys {sorted(clash)} that the note adds")
-    try:
-        results_text = json.dumps(
-            {**result_dict, "note_time": note_time, "provenance": prov},
-            indent=2,
-            ensure_ascii=False,
-            allow_nan=False,
-        )
-    except (TypeError, ValueError) as exc:
-        raise NoteRenderError(
-            f"results of case {prepared.case_id!r} are not strict JSON: {_one_line(exc)}"
-        ) from None
     if kernel_manager is not None:
         kernel = kernel_name or KERNEL_NAME
-        engine_kwargs: dict[str, Any] = {"km": kernel_manager}
     else:
         kernel = kernel_name or ensure_kernel()
-        engine_kwargs = {}
-
-    import nbformat
-    import papermill
 
     folder.parent.mkdir(parents=True, exist_ok=True)
     scratch = Path(
         tempfile.mkdtemp(dir=folder.parent, prefix=f".{prepared.case_id}.", suffix=".partial")
     )
+    own_kernel = None
+    prefetch = None
+    clock.mark("check case and template")
     try:
+        if kernel_manager is None:
+            if results is None and "solved" in template_parameters:
+                prefetch = _ComparisonPrefetch(prepared.validated, scratch)
+            # Started before the solve, so the kernel boots while the case is solved.
+            own_kernel = _EarlyKernel(kernel, scratch, prepared.case_id)
+        clock.mark("start kernel")
+        parameters: dict[str, Any] = {"case": prepared.case, "note_time": note_time}
+        if results is None:
+            from finkit.model import run_case
+
+            solved = run_case(prepared.validated)
+            result_dict = dict(solved.to_json_dict())
+            clock.mark("solve")
+            if "solved" in template_parameters:
+                extra = {}
+                if getattr(prepared.validated, "previous_revision", None) is not None:
+                    from finkit.report import changes_since
+
+                    if prefetch is not None:
+                        prefetch.collect(timeout)
+
+                    extra["comparison"] = changes_since(solved)
+                write_solved(scratch / SOLVED_PICKLE, prepared.validated, solved, **extra)
+                parameters["solved"] = str(scratch / SOLVED_PICKLE)
+                clock.mark("compare with the previous revision")
+        else:
+            result_dict = dict(results(prepared.validated))
+            clock.mark("solve")
+        prov = provenance(prepared.validated, template=template_file.name, note_time=note_time)
+        clash = {"note_time", "provenance"} & set(result_dict)
+        if clash:
+            raise NoteRenderError(
+                f"results already hold the keys {sorted(clash)} that the note adds"
+            )
+        try:
+            results_text = json.dumps(
+                {**result_dict, "note_time": note_time, "provenance": prov},
+                indent=2,
+                ensure_ascii=False,
+                allow_nan=False,
+            )
+        except (TypeError, ValueError) as exc:
+            raise NoteRenderError(
+                f"results of case {prepared.case_id!r} are not strict JSON: {_one_line(exc)}"
+            ) from None
+
+        import nbformat
+        import papermill
+
+        if own_kernel is not None:
+            kernel_manager = own_kernel.ready(timeout)
+        clock.mark("wait for the kernel")
+        html_warm_up = _warm_html_exporter(show_code) if own_kernel is not None else None
         executed_path = scratch / NOTE_IPYNB
         try:
             nb = papermill.execute_notebook(
                 str(template_file),
                 str(executed_path),
-                parameters={"case": prepared.case, "note_time": note_time},
+                parameters=parameters,
                 kernel_name=kernel,
                 execution_timeout=timeout,
                 progress_bar=False,
                 log_output=False,
                 cwd=str(scratch),
-                **engine_kwargs,
+                km=kernel_manager,
             )
         except Exception as exc:  # noqa: BLE001 - every failure is reported the same way
             message = _execution_failure(exc, executed_path, prepared, prov, folder, timeout)
             raise NoteExecutionError(message) from exc
+        clock.mark("run the cells")
+        if own_kernel is not None:
+            own_kernel.stop()
+            own_kernel = None
+        clock.mark("stop the kernel")
 
         nb.metadata["finkit"] = {"status": "complete", "provenance": prov}
         nb.metadata.setdefault("papermill", {})["output_path"] = str(folder / NOTE_IPYNB)
         notebook_text = nbformat.writes(nb)
+        if html_warm_up is not None:
+            html_warm_up.join()
         html = render_html(nb, show_code=show_code, paper=paper)
         problems = check_note_html(html)
         if problems:
@@ -952,6 +1256,7 @@ def render_note(
                 f"note for case {prepared.case_id!r} is not self-contained and safe: "
                 f"{'; '.join(sorted(set(problems)))[:300]}"
             )
+        clock.mark("notebook and HTML")
 
         folder.mkdir(exist_ok=True)
         (folder / NOTE_HTML).unlink(missing_ok=True)
@@ -960,9 +1265,42 @@ def render_note(
         (folder / FAILED_IPYNB).unlink(missing_ok=True)
         clear_stale(folder)
         atomic_write(folder / NOTE_HTML, html)
+        clock.mark("write the files")
     finally:
+        if prefetch is not None:
+            prefetch.stop()
+        if own_kernel is not None:
+            own_kernel.stop()
         shutil.rmtree(scratch, ignore_errors=True)
     return NoteOutput(folder, folder / NOTE_HTML, folder / NOTE_IPYNB, folder / RESULTS_JSON)
+
+
+#: The stages :func:`render_note` times (its ``stages`` argument), in order.
+NOTE_STAGES = (
+    "check case and template",
+    "start kernel",
+    "solve",
+    "compare with the previous revision",
+    "wait for the kernel",
+    "run the cells",
+    "stop the kernel",
+    "notebook and HTML",
+    "write the files",
+)
+
+
+class _StageClock:
+    """Seconds between marks, added into a dict (nothing when no dict is given)."""
+
+    def __init__(self, stages: dict[str, float] | None):
+        self.stages = stages
+        self.last = time.perf_counter()
+
+    def mark(self, name: str) -> None:
+        now = time.perf_counter()
+        if self.stages is not None:
+            self.stages[name] = self.stages.get(name, 0.0) + now - self.last
+        self.last = now
 
 
 STALE_MARKER = "STALE.txt"

@@ -112,7 +112,7 @@ def case_from_parameters(
     unexpected = sorted(set(given) - allowed)
     if unexpected:
         raise InputError(f"parameters: unknown keyword(s) {', '.join(unexpected)}")
-    known = allowed | {"case", "names", "demo"} | _NOTEBOOK_NAMES
+    known = allowed | {"case", "names", "demo", "solved"} | _NOTEBOOK_NAMES
     unknown = sorted(n for n in names if not n.startswith("_") and n not in known)
     if unknown:
         raise InputError(

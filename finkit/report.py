@@ -176,13 +176,17 @@ def _at_governing(func):
     return wrapper
 
 
-def run(case: Any):
+def run(case: Any, solved: str | None = None):
     """Validate a case (dict as entered, YAML text or path) and solve it.
 
     Parameters
     ----------
     case : mapping, str or path-like
         The case as entered (the ``case`` parameter of a template), or a validated case. [-]
+    solved : str, optional
+        File in which ``finkit note`` left the solution it computed for results.json
+        (:func:`finkit.notes.write_solved`); used only when it is for these very inputs and this
+        finkit version, otherwise the case is solved here. [-]
 
     Returns
     -------
@@ -190,9 +194,19 @@ def run(case: Any):
         ``finkit.model.run_case(finkit.case.load_case(case))``. [-]
     """
     from finkit.case import Case, load_case
-    from finkit.model import run_case
 
     validated = case if isinstance(case, Case) else load_case(case)
+    if solved:
+        from finkit.notes import read_solved
+
+        handed = read_solved(solved, validated)
+        if handed is not None:
+            result = handed["result"]
+            if "comparison" in handed:
+                _remember_comparison(result, handed["comparison"])
+            return result
+    from finkit.model import run_case
+
     return run_case(validated)
 
 
@@ -681,10 +695,14 @@ def changes_since(result):
         comparison: Any = compare(load_revision(previous.source), current)
     except FinkitError as exc:
         comparison = exc
+    _remember_comparison(result, comparison)
+    return comparison
+
+
+def _remember_comparison(result, comparison) -> None:
     if len(_COMPARISONS) > 8:
         _COMPARISONS.clear()
     _COMPARISONS[id(result)] = (result, comparison)
-    return comparison
 
 
 def changes_since_line(result) -> present.Fragment:

@@ -177,14 +177,15 @@ def test_parameters_cell_declares_the_case_its_keys_and_the_overrides(kind):
     cells = _cells(kind)
     tagged = [c for c in cells if _is_parameters(c)]
     assert len(tagged) == 1
-    expected = {"case", "note_time", *CASE_KEYS}
+    # "solved": where finkit note leaves the solution it computed (empty: the note solves).
+    expected = {"case", "note_time", "solved", *CASE_KEYS}
     if kind == "heat-sink":
         expected |= set(OVERRIDES)
     assert _assigned(tagged[0].source) == expected
     namespace: dict = {}
     exec(compile(tagged[0].source, "parameters", "exec"), {}, namespace)  # literals only
-    assert namespace["note_time"] == ""
-    assert all(namespace[name] is None for name in expected - {"note_time"})
+    assert namespace["note_time"] == "" and namespace["solved"] == ""
+    assert all(namespace[name] is None for name in expected - {"note_time", "solved"})
 
 
 @pytest.mark.parametrize("kind", sorted(notes.TEMPLATES_BY_KIND))
