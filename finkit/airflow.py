@@ -31,6 +31,7 @@ Design choices, stated once:
 
 from __future__ import annotations
 
+import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any, NamedTuple
@@ -51,6 +52,8 @@ __all__ = [
     "operating_point",
     "power_law_pressure_drop",
     "bypass_gap_pressure_drop",
+    "FanTableProblem",
+    "fan_table_problems",
     "split_among_branches",
     "split_bypass",
     "split_bypass_at_approach_velocity",
@@ -85,10 +88,100 @@ def _as_table(name: str, values) -> tuple[float, ...]:
     array = np.asarray(values, dtype=float)
     if array.ndim != 1:
         raise InputError(f"FanCurve.{name} must be a 1-D table of numbers, got shape {array.shape}")
-    for i, v in enumerate(array):
-        if not np.isfinite(v):
-            raise InputError(f"FanCurve.{name}[{i}] = {v}; every table value must be finite")
     return tuple(float(v) for v in array)
+
+
+class FanTableProblem(NamedTuple):
+    """One way a fan table breaks the rules of :class:`FanCurve` (:func:`fan_table_problems`).
+
+    Attributes
+    ----------
+    argument : str
+        ``"volume_flow"`` or ``"static_pressure"``. [-]
+    index : int or None
+        The point it is at (None: the table as a whole). [-]
+    rule : str
+        Which rule: ``not_finite``, ``lengths``, ``too_few``, ``not_shut_off``,
+        ``not_increasing``, ``not_positive`` or ``not_free_delivery``. [-]
+    value : float
+        The offending value (a count for ``lengths`` and ``too_few``) [m³ s⁻¹, Pa or -].
+    """
+
+    argument: str
+    index: int | None
+    rule: str
+    value: float
+
+    def text(self, prefix: str = "") -> str:
+        """One line naming the argument, the point and the rule (``prefix`` before the name)."""
+        where = f"{prefix}{self.argument}" + ("" if self.index is None else f"[{self.index}]")
+        unit = " m³/s" if self.argument == "volume_flow" else " Pa"
+        return f"{where}{_FAN_RULE_TEXT[self.rule].format(value=self.value, unit=unit)}"
+
+
+_FAN_RULE_TEXT = {
+    "not_finite": " = {value}; every table value must be a finite number",
+    "lengths": " has {value:g} points, not as many as volume_flow; give one pressure per flow",
+    "too_few": " has {value:g} point(s); at least 2 are needed (shut-off and free delivery)",
+    "not_shut_off": " = {value:g}{unit}; the table must start at shut-off, with a flow of 0",
+    "not_increasing": " = {value:g}{unit} is not above the point before; flows must increase "
+    "from point to point",
+    "not_positive": " = {value:g}{unit}; must be above 0 before free delivery (the last point)",
+    "not_free_delivery": " = {value:g}{unit}; the table must end at free delivery, with a "
+    "pressure of 0",
+}
+
+
+def fan_table_problems(volume_flow, static_pressure) -> tuple[FanTableProblem, ...]:
+    """Every rule a fan table breaks, as data: the one source of the fan-table rules.
+
+    A fan curve runs from shut-off (flow 0, the highest pressure region) to free delivery
+    (pressure 0): flows finite and strictly increasing from 0, one pressure per flow, at least
+    two points, pressures finite and above 0 before the last point, which is 0.
+    :class:`FanCurve` raises the first problem; the case file's checks
+    (:class:`finkit.case.Fan`) place each one on the case's own fields. Each table is checked
+    on its own, so a length mismatch does not hide a flow that does not increase.
+
+    Parameters
+    ----------
+    volume_flow : sequence of float
+        Flows of the table [m³ s⁻¹].
+    static_pressure : sequence of float
+        Pressures of the table [Pa].
+
+    Returns
+    -------
+    tuple of FanTableProblem
+        Empty for a good table; at most one problem per rule and table, in table order.
+    """
+    flow = [float(v) for v in volume_flow]
+    pressure = [float(v) for v in static_pressure]
+    problems: list[FanTableProblem] = []
+    for name, table in (("volume_flow", flow), ("static_pressure", pressure)):
+        bad = next((i for i, v in enumerate(table) if not math.isfinite(v)), None)
+        if bad is not None:
+            problems.append(FanTableProblem(name, bad, "not_finite", table[bad]))
+    if problems:
+        return tuple(problems)
+    if len(flow) != len(pressure):
+        problems.append(FanTableProblem("static_pressure", None, "lengths", len(pressure)))
+    if len(flow) < 2:
+        problems.append(FanTableProblem("volume_flow", None, "too_few", len(flow)))
+    if flow and flow[0] != 0.0:
+        problems.append(FanTableProblem("volume_flow", 0, "not_shut_off", flow[0]))
+    rising = next((i for i in range(1, len(flow)) if not flow[i] > flow[i - 1]), None)
+    if rising is not None:
+        problems.append(FanTableProblem("volume_flow", rising, "not_increasing", flow[rising]))
+    if pressure:
+        low = next((i for i, p in enumerate(pressure[:-1]) if not p > 0.0), None)
+        if low is not None:
+            problems.append(FanTableProblem("static_pressure", low, "not_positive", pressure[low]))
+        if pressure[-1] != 0.0:
+            last = len(pressure) - 1
+            problems.append(
+                FanTableProblem("static_pressure", last, "not_free_delivery", pressure[-1])
+            )
+    return tuple(problems)
 
 
 def _check_count(name: str, value, minimum: int) -> int:
@@ -182,39 +275,9 @@ class FanCurve:
     def __post_init__(self):
         flow = _as_table("volume_flow", self.volume_flow)
         pressure = _as_table("static_pressure", self.static_pressure)
-        if len(flow) != len(pressure):
-            raise InputError(
-                f"FanCurve.static_pressure has {len(pressure)} points but volume_flow has "
-                f"{len(flow)}; give one pressure per flow"
-            )
-        if len(flow) < 2:
-            raise InputError(
-                f"FanCurve.volume_flow has {len(flow)} point(s); at least 2 are needed "
-                "(shut-off and free delivery)"
-            )
-        if flow[0] != 0.0:
-            raise InputError(
-                f"FanCurve.volume_flow[0] = {flow[0]} m³/s; the table must start at shut-off, "
-                "volume_flow[0] = 0"
-            )
-        for i in range(1, len(flow)):
-            if not flow[i] > flow[i - 1]:
-                raise InputError(
-                    f"FanCurve.volume_flow[{i}] = {flow[i]} m³/s is not above "
-                    f"volume_flow[{i - 1}] = {flow[i - 1]}; flows must increase strictly"
-                )
-        last = len(pressure) - 1
-        for i in range(last):
-            if not pressure[i] > 0.0:
-                raise InputError(
-                    f"FanCurve.static_pressure[{i}] = {pressure[i]} Pa; must be > 0 before "
-                    "free delivery (the last point)"
-                )
-        if pressure[last] != 0.0:
-            raise InputError(
-                f"FanCurve.static_pressure[{last}] = {pressure[last]} Pa; the table must end "
-                "at free delivery, static_pressure = 0"
-            )
+        problems = fan_table_problems(flow, pressure)
+        if problems:
+            raise InputError(problems[0].text("FanCurve."))
         density = float(self.rating_density)
         if not (np.isfinite(density) and density > 0):
             raise InputError(

@@ -406,30 +406,61 @@ class Fan(_Model):
 
     @model_validator(mode="after")
     def _curve(self):
+        # The fan-table rules live with the fan curve (finkit.airflow.fan_table_problems); here
+        # each problem is placed on the case's own field. A case also asks for 3 points or more
+        # (two make a straight line that misses the knee of a real fan; common practice, no
+        # source).
+        from finkit.airflow import fan_table_problems
+
         problems = []
         n_q, n_p = len(self.volume_flow), len(self.pressure)
-        if n_q != n_p:
-            problems.append(
-                (
-                    "pressure",
-                    f"must have as many points as volume_flow "
-                    f"(got {n_p} pressures and {n_q} flows)",
+        for problem in fan_table_problems(self.volume_flow, self.pressure):
+            field = "pressure" if problem.argument == "static_pressure" else "volume_flow"
+            if problem.rule == "lengths":
+                problems.append(
+                    (
+                        "pressure",
+                        f"must have as many points as volume_flow "
+                        f"(got {n_p} pressures and {n_q} flows)",
+                    )
                 )
-            )
+            elif problem.rule == "not_increasing":
+                problems.append(
+                    (
+                        "volume_flow",
+                        f"must increase from point to point (point {problem.index} "
+                        "is not larger than the one before)",
+                    )
+                )
+            elif problem.rule == "not_shut_off":
+                problems.append(
+                    (
+                        "volume_flow[0]",
+                        "must be 0: the table starts at shut-off "
+                        f"(got {_fmt(problem.value, 'volume_flow', 'CFM')})",
+                    )
+                )
+            elif problem.rule == "not_positive":
+                problems.append(
+                    (
+                        f"pressure[{problem.index}]",
+                        "must be above 0 before free delivery, the last point "
+                        f"(got {_fmt(problem.value, 'pressure')})",
+                    )
+                )
+            elif problem.rule == "not_free_delivery":
+                problems.append(
+                    (
+                        f"pressure[{problem.index}]",
+                        "must be 0: the table ends at free delivery "
+                        f"(got {_fmt(problem.value, 'pressure')})",
+                    )
+                )
+            elif problem.rule == "not_finite":
+                problems.append((f"{field}[{problem.index}]", "must be a finite number"))
+            # "too_few": the case's own count rule below says more
         if min(n_q, n_p) < 3:
             problems.append(("", f"needs at least 3 points (got {min(n_q, n_p)})"))
-        steps = [b - a for a, b in zip(self.volume_flow, self.volume_flow[1:], strict=False)]
-        if any(s <= 0 for s in steps):
-            i = next(i for i, s in enumerate(steps) if s <= 0) + 1
-            problems.append(
-                (
-                    "volume_flow",
-                    f"must increase from point to point (point {i} "
-                    "is not larger than the one before)",
-                )
-            )
-        if self.pressure and max(self.pressure) <= 0:
-            problems.append(("pressure", "needs at least one point above 0"))
         if problems:
             raise _fail_many(problems)
         return self

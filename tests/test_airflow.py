@@ -227,6 +227,21 @@ def test_bad_tables_name_the_field_and_index(kwargs, pattern):
     assert "\n" not in str(err.value)
 
 
+def test_fan_table_problems_are_data_one_per_rule():
+    from finkit.airflow import fan_table_problems
+
+    assert fan_table_problems([0.0, 0.01, 0.02], [50.0, 20.0, 0.0]) == ()
+    problems = fan_table_problems([0.001, 0.01, 0.005], [50.0, 0.0, 3.0, 1.0])
+    assert [(p.argument, p.index, p.rule) for p in problems] == [
+        ("static_pressure", None, "lengths"),
+        ("volume_flow", 0, "not_shut_off"),
+        ("volume_flow", 2, "not_increasing"),
+        ("static_pressure", 1, "not_positive"),
+        ("static_pressure", 3, "not_free_delivery"),
+    ]
+    assert problems[1].text("FanCurve.").startswith("FanCurve.volume_flow[0] = 0.001 m³/s;")
+
+
 def test_bad_combinations_raise():
     with pytest.raises(InputError, match="arrangement"):
         FAN.combined(2, "stacked")

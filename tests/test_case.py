@@ -334,6 +334,50 @@ def test_fan_curve_rules():
     ]
 
 
+def test_fan_table_is_checked_by_the_fan_curves_own_rules():
+    # One source for the fan-table rules (finkit.airflow.fan_table_problems): a table that
+    # starts above zero flow, drops to zero pressure before its end, or ends above zero
+    # pressure is refused by the case file's checks, on the case's own fields; before, such a
+    # table passed validation and failed later inside the model.
+    data = starter("plate-fin")
+    data["air"]["flow"] = {"fan": {"volume_flow": ["1 CFM", "10 CFM", "20 CFM"],
+                                   "pressure": ["0.3 inH2O", "0 inH2O", "0.1 inH2O"]}}  # fmt: skip
+    assert errors_of(data) == [
+        "air.flow.fan.volume_flow[0]: must be 0: the table starts at shut-off (got 1 CFM)",
+        "air.flow.fan.pressure[1]: must be above 0 before free delivery, the last point (got 0 Pa)",
+        "air.flow.fan.pressure[2]: must be 0: the table ends at free delivery (got 24.91 Pa)",
+    ]
+
+
+def test_every_fan_table_a_case_accepts_makes_a_fan_curve():
+    import numpy as np
+
+    from finkit.airflow import FanCurve
+    from finkit.errors import InputError
+
+    rng = np.random.default_rng(3)
+    accepted = 0
+    for _ in range(300):
+        n = int(rng.integers(2, 6))
+        # tables that start at 0 or not, repeat a flow or not, reach 0 Pa early, late or never
+        flows = np.cumsum(np.concatenate([rng.choice([0.0, 1.0], 1), rng.choice([0, 2, 5], n - 1)]))
+        pressures = np.sort(rng.choice([0.0, 5.0, 20.0, 60.0], n))[::-1]
+        data = starter("plate-fin")
+        data["air"]["flow"] = {"fan": {"volume_flow": [f"{q} CFM" for q in flows],
+                                       "pressure": [f"{p} Pa" for p in pressures]}}  # fmt: skip
+        try:
+            case = load_case(data)
+        except CaseError:
+            continue
+        accepted += 1
+        fan = case.air.flow.fan
+        try:
+            FanCurve(fan.volume_flow, fan.pressure)
+        except InputError as exc:  # pragma: no cover - the failure this test guards against
+            pytest.fail(f"the case accepted a table the fan curve refuses: {exc}")
+    assert 0 < accepted < 300  # some tables of each kind
+
+
 def test_limit_must_be_above_the_inlet_air():
     data = starter("plate-fin")
     data["limit"]["temperature"] = "40 degC"
