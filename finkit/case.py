@@ -364,8 +364,9 @@ class Sink(_Model):
     def _geometry(self):
         problems = _sink_block_problems(self.type, self.fins is not None, self.pins is not None)
         if self.type == "plate-fin" and self.fins is not None:
-            occupied = self.fins.count * self.fins.thickness
-            if occupied >= self.base.width:
+            from finkit.geometry import fins_fit
+
+            if not fins_fit(self.base.width, self.fins.count, self.fins.thickness):
                 problems.append(
                     (
                         "fins",

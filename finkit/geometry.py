@@ -23,7 +23,7 @@ import numpy as np
 
 from finkit.errors import GeometryError, InputError
 
-__all__ = ["PlateFinSink", "PinFinSink", "PIN_ARRANGEMENTS"]
+__all__ = ["PlateFinSink", "PinFinSink", "PIN_ARRANGEMENTS", "fins_fit"]
 
 #: Pin arrangements understood by :class:`PinFinSink` and :mod:`finkit.correlations.forced`.
 PIN_ARRANGEMENTS = ("inline", "staggered")
@@ -64,6 +64,19 @@ def _check_positive(obj, names) -> None:
                 f"{name} = {_first_bad(bad, value)} is not allowed; it must be a finite "
                 "length > 0 m"
             )
+
+
+def fins_fit(base_width, fin_count, fin_thickness):
+    """True where ``fin_count`` fins of ``fin_thickness`` leave a gap on ``base_width``.
+
+    The one rule for whether plate fins fit, ``W - N t > 0`` (to a relative tolerance of
+    ``_FIT_TOLERANCE`` of W): :class:`PlateFinSink` raises where it is false, and the case file's
+    check (:class:`finkit.case.Sink`) names the fields. Arrays broadcast [-].
+    """
+    w = np.asarray(base_width, dtype=float)
+    n = np.asarray(fin_count, dtype=float)
+    t = np.asarray(fin_thickness, dtype=float)
+    return w - n * t > _FIT_TOLERANCE * w
 
 
 @dataclass(frozen=True)
@@ -130,7 +143,7 @@ class PlateFinSink:
             )
         w = np.asarray(self.base_width, dtype=float)
         t = np.asarray(self.fin_thickness, dtype=float)
-        bad = ~(w - n * t > _FIT_TOLERANCE * w)
+        bad = ~fins_fit(w, n, t)
         if np.any(bad):
             raise GeometryError(
                 "fin_count * fin_thickness >= base_width: fins do not fit "

@@ -401,6 +401,12 @@ def test_fins_must_fit_and_pins_must_not_touch():
     data["sink"]["fins"]["count"] = 70
     (message,) = errors_of(data)
     assert message.startswith("sink.fins: 70 fins of 1.2 mm do not fit on sink.base.width 80 mm")
+    # One rule (finkit.geometry.fins_fit): fins that leave a gap thinner than the geometry's fit
+    # tolerance are refused by the case check too, not first by the model.
+    data["sink"]["fins"]["count"] = 40
+    data["sink"]["fins"]["thickness"] = f"{80 / 40 * (1 - 1e-12)} mm"
+    (message,) = errors_of(data)
+    assert message.startswith("sink.fins: 40 fins of")
     data = starter("pin-fin")
     data["sink"]["pins"]["transverse_pitch"] = "3 mm"
     assert errors_of(data) == [
