@@ -96,7 +96,8 @@ __all__ = [
 ]
 
 CASE_KINDS = ("heat-sink", "single-fin")
-#: Sweep plots a heat-sink note can show.
+#: Sweep plots a heat-sink note can show: the one registry of sweep names (``finkit.model``
+#: sweeps exactly these).
 SWEEP_NAMES = (
     "inlet_temperature",
     "airflow",

@@ -20,6 +20,7 @@ import numpy as np
 
 import finkit
 from finkit.airflow import FanCurve
+from finkit.case import SWEEP_NAMES
 from finkit.constants import ZERO_CELSIUS
 from finkit.errors import InputError, PropertyRangeError
 from finkit.geometry import PinFinSink, PlateFinSink
@@ -793,17 +794,9 @@ def _run_single_fin(case) -> CaseResult:
 # Sweeps (mode c): one input replaced by an array
 # --------------------------------------------------------------------------------------
 
-SWEEPABLE = (
-    "inlet_temperature",
-    "airflow",
-    "heat_transfer_coefficient",
-    "fin_count",
-    "fin_height",
-    "fin_thickness",
-    "altitude",
-    "power",
-)
-"""Inputs a sweep (and a case's ``sweeps`` list) may vary."""
+SWEEPABLE = SWEEP_NAMES
+"""Inputs a sweep (and a case's ``sweeps`` list) may vary: the case file's one registry,
+:data:`finkit.case.SWEEP_NAMES`."""
 
 
 def swept_inputs(inputs: SinkInputs, name: str, values) -> SinkInputs:
