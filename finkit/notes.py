@@ -28,6 +28,7 @@ from __future__ import annotations
 
 import datetime as _dt
 import hashlib
+import importlib
 import json
 import math
 import os
@@ -1171,6 +1172,10 @@ def render_note(
     try:
         if kernel_manager is None:
             if results is None and "solved" in template_parameters:
+                if getattr(prepared.validated, "previous_revision", None) is not None:
+                    # Imported once, before the fork, rather than in both processes.
+                    for name in ("finkit.model", "finkit.review", "finkit.compare"):
+                        importlib.import_module(name)
                 prefetch = _ComparisonPrefetch(prepared.validated, scratch)
             # Started before the solve, so the kernel boots while the case is solved.
             own_kernel = _EarlyKernel(kernel, scratch, prepared.case_id)
