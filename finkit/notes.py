@@ -47,6 +47,7 @@ from html.parser import HTMLParser
 from pathlib import Path
 from typing import Any, NamedTuple
 
+from finkit import handover
 from finkit.errors import FinkitError, InputError, NotSupportedError
 
 __all__ = [
@@ -785,66 +786,6 @@ def render_html(nb: Any, *, show_code: bool = False, paper: str = "A4") -> str:
 # The note
 
 
-#: File in a note's scratch folder that carries the parent's solved case to the kernel.
-SOLVED_PICKLE = "solved.pickle"
-_SOLVED_FORMAT = 1
-
-
-def write_solved(path: Path, validated: Any, result: Any, **extra: Any) -> Path:
-    """Store the parent's solved case for the note kernel (:func:`read_solved`).
-
-    ``finkit note`` solves the case before any cell runs (so a case the model rejects fails
-    fast) and writes results.json from that solution; the template's first cell takes the same
-    result from this file instead of solving the case a second time (issue 15). The file holds
-    the case's input hash and the finkit version, and lives in the note's scratch folder, which
-    is removed with the run. ``extra`` items (e.g. the comparison with the previous revision,
-    which solves that revision) travel with it.
-    """
-    import pickle
-
-    from finkit import __version__
-
-    payload = {
-        **extra,
-        "format": _SOLVED_FORMAT,
-        "finkit": __version__,
-        "inputs_sha256": inputs_sha256(validated),
-        "result": result,
-    }
-    atomic_write(path, pickle.dumps(payload, protocol=pickle.HIGHEST_PROTOCOL))
-    return path
-
-
-def read_solved(path: str | os.PathLike | None, validated: Any) -> dict | None:
-    """What :func:`write_solved` stored for this very case (``payload["result"]`` and the extra
-    items), or None.
-
-    None when no path is given, the file is missing (a note re-run by hand after its scratch
-    folder is gone), unreadable, written by another finkit version or for other inputs: the
-    caller then solves the case itself. Never a partly matching result.
-    """
-    if not path:
-        return None
-    import pickle
-
-    from finkit import __version__
-
-    try:
-        with open(path, "rb") as handle:
-            payload = pickle.load(handle)
-    except (OSError, EOFError, pickle.UnpicklingError, AttributeError, ImportError, TypeError):
-        return None
-    if not (
-        isinstance(payload, dict)
-        and payload.get("format") == _SOLVED_FORMAT
-        and payload.get("finkit") == __version__
-        and payload.get("inputs_sha256") == inputs_sha256(validated)
-        and payload.get("result") is not None
-    ):
-        return None
-    return payload
-
-
 #: Modules a note kernel imports while the parent solves the case: those the template's first
 #: cells import anyway (the report module, the classes of the solved result it unpickles, the
 #: fan curve's interpolator, matplotlib's figure), then the unit registry the first cell makes.
@@ -1115,8 +1056,8 @@ def render_note(
     results : callable, optional
         ``results(validated_case) -> mapping`` written to ``results.json``; default
         ``finkit.model.run_case(case).to_json_dict()``, whose solution is also handed to the
-        kernel when the template takes a ``solved`` parameter (:func:`write_solved`), so the
-        note never solves its case twice. [-]
+        kernel when the template takes a ``solved`` parameter
+        (:func:`finkit.handover.write_solved`), so the note never solves its case twice. [-]
     kernel_manager : jupyter_client.KernelManager, optional
         Execute with this kernel manager (passed to papermill as ``km``) instead of starting
         the kernel ``kernel_name``; :mod:`finkit.batch` passes an in-process kernel here.
@@ -1196,8 +1137,10 @@ def render_note(
                         prefetch.collect(timeout)
 
                     extra["comparison"] = changes_since(solved)
-                write_solved(scratch / SOLVED_PICKLE, prepared.validated, solved, **extra)
-                parameters["solved"] = str(scratch / SOLVED_PICKLE)
+                handover.write_solved(
+                    scratch / handover.SOLVED_PICKLE, prepared.validated, solved, **extra
+                )
+                parameters["solved"] = str(scratch / handover.SOLVED_PICKLE)
                 clock.mark("compare with the previous revision")
         else:
             result_dict = dict(results(prepared.validated))

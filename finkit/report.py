@@ -185,7 +185,7 @@ def run(case: Any, solved: str | None = None):
         The case as entered (the ``case`` parameter of a template), or a validated case. [-]
     solved : str, optional
         File in which ``finkit note`` left the solution it computed for results.json
-        (:func:`finkit.notes.write_solved`); used only when it is for these very inputs and this
+        (:func:`finkit.handover.write_solved`); used only when it is for these very inputs and this
         finkit version, otherwise the case is solved here. [-]
 
     Returns
@@ -197,7 +197,7 @@ def run(case: Any, solved: str | None = None):
 
     validated = case if isinstance(case, Case) else load_case(case)
     if solved:
-        from finkit.notes import read_solved
+        from finkit.handover import read_solved
 
         handed = read_solved(solved, validated)
         if handed is not None:

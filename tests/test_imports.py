@@ -110,3 +110,91 @@ def test_commands_skip_the_unused_iri_grammar_and_notebooks_still_validate():
         "print(sys.modules['rfc3987_syntax'])"
     )
     assert _python(code).splitlines()[-1] == "None"
+
+
+#: The one import cycle finkit still has (counting imports made inside functions): the case
+#: schema's study blocks reach the model and the model's studies reach back. The layered
+#: packages of the structure issue remove it; until then no other cycle may appear.
+KNOWN_CYCLE = {
+    "finkit.bounds",
+    "finkit.case",
+    "finkit.explore_schema",
+    "finkit.model",
+    "finkit.review",
+    "finkit.uncertainty",
+}
+
+
+def _import_graph() -> dict[str, set[str]]:
+    """finkit module -> the finkit modules it imports anywhere in its text (ast)."""
+    import ast
+
+    package = Path(__file__).resolve().parents[1] / "finkit"
+    modules = {}
+    for path in package.rglob("*.py"):
+        name = ".".join(path.relative_to(package.parent).with_suffix("").parts)
+        modules[name.removesuffix(".__init__")] = path
+
+    def known(name: str) -> str | None:
+        parts = name.split(".")
+        while parts:
+            if ".".join(parts) in modules:
+                return ".".join(parts)
+            parts.pop()
+        return None
+
+    graph = {name: set() for name in modules}
+    for name, path in modules.items():
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            targets = []
+            if isinstance(node, ast.Import):
+                targets = [alias.name for alias in node.names]
+            elif isinstance(node, ast.ImportFrom) and node.module and not node.level:
+                targets = [f"{node.module}.{alias.name}" for alias in node.names]
+            for target in targets:
+                module = known(target)
+                if module and module not in (name, "finkit"):
+                    graph[name].add(module)
+    return graph
+
+
+def _cycles(graph: dict[str, set[str]]) -> list[set[str]]:
+    """Strongly connected components of more than one module (Tarjan)."""
+    index: dict[str, int] = {}
+    low: dict[str, int] = {}
+    stack: list[str] = []
+    found: list[set[str]] = []
+
+    def visit(node: str) -> None:
+        index[node] = low[node] = len(index)
+        stack.append(node)
+        for other in graph[node]:
+            if other not in index:
+                visit(other)
+                low[node] = min(low[node], low[other])
+            elif other in stack:
+                low[node] = min(low[node], index[other])
+        if low[node] == index[node]:
+            component = set()
+            while True:
+                member = stack.pop()
+                component.add(member)
+                if member == node:
+                    break
+            if len(component) > 1:
+                found.append(component)
+
+    for node in graph:
+        if node not in index:
+            visit(node)
+    return found
+
+
+def test_no_import_cycle_but_the_known_one():
+    cycles = _cycles(_import_graph())
+    assert all(cycle <= KNOWN_CYCLE for cycle in cycles), cycles
+
+
+def test_the_cycle_check_finds_a_cycle():
+    graph = {"a": {"b"}, "b": {"c"}, "c": {"a"}, "d": {"a"}}
+    assert _cycles(graph) == [{"a", "b", "c"}]

@@ -18,7 +18,7 @@ import numpy as np
 import pytest
 
 import finkit.model
-from finkit import compare, notes, present, report
+from finkit import compare, handover, present, report
 from finkit.case import load_case
 from finkit.errors import PropertyRangeError
 from finkit.model import governing_results, run_case
@@ -34,8 +34,8 @@ def plate():
 
 def test_solved_result_round_trips_for_the_same_inputs(tmp_path, plate):
     case, result = plate
-    path = notes.write_solved(tmp_path / notes.SOLVED_PICKLE, case, result, comparison="x")
-    payload = notes.read_solved(str(path), load_case(DEMO / "nb200-plate-fan.yaml"))
+    path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, case, result, comparison="x")
+    payload = handover.read_solved(str(path), load_case(DEMO / "nb200-plate-fan.yaml"))
     assert payload is not None and payload["comparison"] == "x"
     assert payload["result"].results == result.results
     assert payload["result"].warnings == result.warnings
@@ -43,24 +43,24 @@ def test_solved_result_round_trips_for_the_same_inputs(tmp_path, plate):
 
 def test_solved_result_is_refused_for_anything_else(tmp_path, plate, monkeypatch):
     case, result = plate
-    path = notes.write_solved(tmp_path / notes.SOLVED_PICKLE, case, result)
+    path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, case, result)
     other = load_case(DEMO / "nb200-plate-fan-rev-a.yaml")
-    assert notes.read_solved(str(path), other) is None  # other inputs
-    assert notes.read_solved(str(tmp_path / "missing.pickle"), case) is None  # scratch gone
-    assert notes.read_solved("", case) is None and notes.read_solved(None, case) is None
+    assert handover.read_solved(str(path), other) is None  # other inputs
+    assert handover.read_solved(str(tmp_path / "missing.pickle"), case) is None  # scratch gone
+    assert handover.read_solved("", case) is None and handover.read_solved(None, case) is None
     torn = tmp_path / "torn.pickle"
     torn.write_bytes(path.read_bytes()[:100])
-    assert notes.read_solved(str(torn), case) is None  # half-written file
+    assert handover.read_solved(str(torn), case) is None  # half-written file
     foreign = tmp_path / "foreign.pickle"
     foreign.write_bytes(pickle.dumps({"result": result}))
-    assert notes.read_solved(str(foreign), case) is None  # no format, version or hash
+    assert handover.read_solved(str(foreign), case) is None  # no format, version or hash
     monkeypatch.setattr(finkit, "__version__", "0.0.0-other")
-    assert notes.read_solved(str(path), case) is None  # written by another finkit version
+    assert handover.read_solved(str(path), case) is None  # written by another finkit version
 
 
 def test_report_run_takes_the_handed_result_without_solving(tmp_path, plate, monkeypatch):
     case, result = plate
-    path = notes.write_solved(tmp_path / notes.SOLVED_PICKLE, case, result)
+    path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, case, result)
 
     def no_solve(*args, **kwargs):
         raise AssertionError("the kernel solved the case again")
@@ -73,7 +73,7 @@ def test_report_run_takes_the_handed_result_without_solving(tmp_path, plate, mon
 def test_report_run_solves_when_the_handed_result_is_for_other_inputs(tmp_path, plate):
     case, result = plate
     other = load_case(DEMO / "nb200-plate-fan-rev-a.yaml")
-    path = notes.write_solved(tmp_path / notes.SOLVED_PICKLE, other, run_case(other))
+    path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, other, run_case(other))
     solved = report.run(dict(case.entered), solved=str(path))
     assert solved.results == result.results
 
