@@ -7,7 +7,7 @@ VENV   := .venv
 BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.finkit-installed
 
-.PHONY: setup test lint demo bench lab clean
+.PHONY: setup test test-fast lint demo bench lab clean
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -25,6 +25,9 @@ lint: setup
 test: setup lint
 	bash .ci/ensure_chromium.sh
 	$(BIN)/python -m pytest
+
+test-fast: setup
+	$(BIN)/python -m pytest -q -m "not slow"
 
 demo: setup
 	$(BIN)/python -m finkit.demo

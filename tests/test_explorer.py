@@ -149,6 +149,7 @@ def test_numbers_at_start_are_those_of_run_case(demo):
 
 
 @pytest.mark.identity
+@pytest.mark.slow
 def test_each_control_moved_gives_the_numbers_of_the_equivalent_case(demo):
     path, explorer = demo
     numeric = [n for n in explorer.controls if n in NEW_VALUES]
@@ -165,6 +166,7 @@ def test_each_control_moved_gives_the_numbers_of_the_equivalent_case(demo):
 
 
 @pytest.mark.identity
+@pytest.mark.slow
 def test_material_and_finish_controls_give_the_equivalent_case(demo):
     path, explorer = demo
     explorer.reset()
