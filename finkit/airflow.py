@@ -1,7 +1,7 @@
 """Airflow: fan curves, system curves, the vectorised fan operating point, and flow bypass.
 
 A forced-air heat sink sees the flow that its fan delivers against the pressure drop of
-everything in the air path. This module holds the pieces of that balance (methods.md, h):
+everything in the air path. This module holds the pieces of that balance (docs/methods.md, h):
 
 * :class:`FanCurve` -- a fan's static pressure against volume flow, from a catalogue table,
   with density scaling (fan laws), series/parallel combination, speed scaling and failed fans;
@@ -68,7 +68,7 @@ STANDARD_AIR_DENSITY = 1.2
 ARRANGEMENTS = ("parallel", "series")
 
 #: Coefficient of the short-duct asymptote of the laminar apparent friction factor,
-#: ``f_app Re_Dh -> 3.44 / sqrt(L*)`` (Shah & London 1978; methods.md e3).
+#: ``f_app Re_Dh -> 3.44 / sqrt(L*)`` (Shah & London 1978; docs/methods.md e3).
 _SHORT_DUCT_COEFFICIENT = 3.44
 
 #: Points used when a derived fan table (failed fans with a leak path) is resampled.
@@ -237,7 +237,7 @@ class FanCurve:
     -----
     *Density* (fan laws at constant speed and size): the volume flow at a given operating
     state is unchanged and the pressure scales with density, ``dp(Q, rho) = dp_table(Q) rho /
-    rho_rating`` [methods.md h, CP; fan laws as in AMCA Publication 99]. Use the inlet-air
+    rho_rating`` [docs/methods.md h, CP; fan laws as in AMCA Publication 99]. Use the inlet-air
     density, e.g. at altitude.
 
     *Combination* of identical fans: in parallel every fan carries ``Q/n`` at the common
@@ -817,7 +817,7 @@ def operating_point(
 
     Notes
     -----
-    Solves ``dp_fan(Q) rho/rho_rating = dp_sys(Q)`` on ``0 <= Q <= Q_free`` (methods.md h).
+    Solves ``dp_fan(Q) rho/rho_rating = dp_sys(Q)`` on ``0 <= Q <= Q_free`` (docs/methods.md h).
     The fan table is cut into monotone pieces at its local extrema; the residual is evaluated
     at the cuts and the root is bracketed in the piece with the highest-flow sign change from
     fan-above to fan-below system, so the stable crossing on the falling part of the curve is
@@ -865,7 +865,7 @@ def power_law_pressure_drop(
 
     Notes
     -----
-    ``dp = K Q^n`` is the quick system model of methods.md h (common practice, no source);
+    ``dp = K Q^n`` is the quick system model of docs/methods.md h (common practice, no source);
     the density of the rated point is assumed to be the operating one.
     """
     q = np.asarray(volume_flow, dtype=float)
@@ -949,14 +949,14 @@ def bypass_gap_pressure_drop(
     -----
     With gap velocity ``V = Q/A``, ``Re = rho V D_h / mu`` and ``L* = L / (D_h Re)``::
 
-        dp    = [K + 4 f L / D_h] rho V² / 2                   (Fanning f; methods.md e5)
+        dp    = [K + 4 f L / D_h] rho V² / 2                   (Fanning f; docs/methods.md e5)
         f     = [f_lam^12 + f_turb^12]^(1/12)                   (Churchill's blend)
         f_lam = sqrt((3.44 / sqrt(L*))² + (f Re)_fd²) / Re     (developing laminar, e3)
         f_turb = 2 (A + B)^(-1/8),  A = [2.457 ln((Re/7)^0.9)]^16,  B = (37530/Re)^16
 
     * Laminar: composite of the short-duct asymptote ``3.44/sqrt(L*)`` and the fully
       developed value (24 for parallel plates), Muzychka & Yovanovich (2009). The
-      coefficient 3.44 (tagged [R] in methods.md) was confirmed as the leading term of Shah's
+      coefficient 3.44 (tagged [R] in docs/methods.md) was confirmed as the leading term of Shah's
       (1978) entry-length correlation, which independent implementations quote with the
       parallel-plate constants ``K(∞) = 0.674, C = 2.9e-5``; the tests compare the composite
       with that correlation (within 8 %).
@@ -1095,7 +1095,7 @@ def split_bypass(
     Notes
     -----
     Two parallel branches between the same upstream and downstream static pressures
-    (methods.md h)::
+    (docs/methods.md h)::
 
         Q_tot = Q_hs + Q_by,    dp_hs(Q_hs) = dp_by(Q_by)
 
@@ -1103,7 +1103,7 @@ def split_bypass(
     (the residual ``dp_hs(x Q) - dp_by((1 - x) Q)`` rises with ``x``). If a branch needs more
     pressure at zero flow than the other at the full flow, all the flow takes the other
     branch. The balance ignores mixing and momentum exchange where the streams rejoin;
-    expect ±10-20 % on ``Q_hs`` (methods.md h, CP).
+    expect ±10-20 % on ``Q_hs`` (docs/methods.md h, CP).
 
     References
     ----------
@@ -1503,7 +1503,7 @@ def operating_point_with_bypass(
 
     Notes
     -----
-    Nested solve (methods.md h): the duct's system curve at a total flow is the pressure drop
+    Nested solve (docs/methods.md h): the duct's system curve at a total flow is the pressure drop
     of the parallel sink/bypass pair from :func:`split_bypass`, plus the extra series loss;
     :func:`operating_point` crosses it with the fan curve. Both levels are vectorised over
     the designs.

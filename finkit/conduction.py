@@ -2,12 +2,13 @@
 
 The heat-sink chain (:mod:`finkit.sink`) treats the base and fins with one-dimensional pieces:
 spreading resistance of the base (:mod:`finkit.spreading`), 1-D conduction through it, and the
-fin array as an overall surface efficiency (methods.md a, c, i). Each piece assumes something the
-real part does not do: the spreading models put a *uniform* ``h`` on the cooled face of the
-base, where the real base is cooled through discrete fin roots; the fin model assumes a uniform
-root temperature along and across each fin. This module solves the steady heat-conduction
-equation in the solid itself, base and fins together, with the same ``h`` on the same surfaces,
-so that the reviewer can see how far the chain is from the conduction solution for one design.
+fin array as an overall surface efficiency (docs/methods.md a, c, i). Each piece assumes
+something the real part does not do: the spreading models put a *uniform* ``h`` on the cooled
+face of the base, where the real base is cooled through discrete fin roots; the fin model
+assumes a uniform root temperature along and across each fin. This module solves the steady
+heat-conduction equation in the solid itself, base and fins together, with the same ``h`` on
+the same surfaces, so that the reviewer can see how far the chain is from the conduction
+solution for one design.
 
 Model
 -----
@@ -956,7 +957,7 @@ def compare_with_chain(
 
     Notes
     -----
-    The chain (methods.md a, c, i1, i2), from the mean source temperature to the air:
+    The chain (docs/methods.md a, c, i1, i2), from the mean source temperature to the air:
 
     .. math::
         R_{chain} = R_{sp,avg} + \frac{t_b}{k_b W L} + R_0,\quad

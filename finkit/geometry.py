@@ -6,7 +6,7 @@ properties computed with numpy and broadcast the same way. A geometry that canno
 that do not fit, overlapping pins, a non-positive size) raises :class:`finkit.errors.GeometryError`
 on construction with a one-line message naming the fields and their values.
 
-Conventions (methods.md section e and f):
+Conventions (docs/methods.md section e and f):
 
 * ``base_width`` W is across the flow, ``base_length`` L along the flow.
 * Plate fins run the full base length; the two edge fins are flush with the base edges, so the
@@ -101,7 +101,7 @@ class PlateFinSink:
     Notes
     -----
     The edge fins are flush with the base edges, so the clear gap is
-    ``b = (W - N t) / (N - 1)`` (methods.md section e). Areas per fin: the two faces
+    ``b = (W - N t) / (N - 1)`` (docs/methods.md section e). Areas per fin: the two faces
     ``2 H L`` and the tip ``t L``; the two fin ends (``t H`` each, at inlet and outlet) are left
     out everywhere (:attr:`fin_end_area_each` gives them if wanted). The base is exposed only
     between fins: ``(N - 1) b L``; the base edges and underside are not counted.
@@ -238,7 +238,7 @@ class PlateFinSink:
 
     @property
     def open_area_ratio(self):
-        """Open-area ratio of the fin region ``sigma = (N - 1) b / W`` [-] (methods.md e1).
+        """Open-area ratio of the fin region ``sigma = (N - 1) b / W`` [-] (docs/methods.md e1).
 
         Channel velocity = approach velocity / sigma. This is the exact ratio of open to frontal
         area of the fin region, not the per-pitch ``b/(b + t)`` of Teertstra et al., which differs
@@ -449,7 +449,7 @@ class PinFinSink:
         """Minimum free-flow area over frontal area [-] = approach velocity / maximum velocity.
 
         In-line: ``(S_T - D)/S_T``. Staggered: the smaller of the transverse gap ``S_T - D`` and
-        the two diagonal gaps ``2 (S_D - D)``, over ``S_T`` (methods.md section f).
+        the two diagonal gaps ``2 (S_D - D)``, over ``S_T`` (docs/methods.md section f).
         """
         st = np.asarray(self.transverse_pitch, dtype=float)
         d = np.asarray(self.pin_diameter, dtype=float)

@@ -318,7 +318,7 @@ def plate_fin_radiation(
 
     Notes
     -----
-    Envelope method (methods.md g3), per channel ``A_w = (2H + S) L`` and
+    Envelope method (docs/methods.md g3), per channel ``A_w = (2H + S) L`` and
     ``A_o = S L (+ 2 S H if the ends are open)``, ``eps_eff`` from
     :func:`channel_effective_emissivity`:
 
@@ -331,8 +331,8 @@ def plate_fin_radiation(
     the sink is isothermal at the given mean temperature, so fin efficiency is not applied to
     radiation. The view between a channel's front opening and its end openings is neglected.
     Rea & West (1976) is the usual reference for radiation from fin arrays (cited as recalled in
-    methods.md g3, not checked here); their data are not reproduced. The channel formula itself was
-    derived here and checked against a discretised radiosity solution (see
+    docs/methods.md g3, not checked here); their data are not reproduced. The channel formula
+    itself was derived here and checked against a discretised radiosity solution (see
     :func:`channel_effective_emissivity`).
 
     References

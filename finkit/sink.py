@@ -1,7 +1,7 @@
 """Heat-sink models: the thermal chain from junction to air, and the two design questions.
 
 A heat sink on a device is a chain of resistances in series between the junction and the
-incoming air (methods.md, section 0)::
+incoming air (docs/methods.md, section 0)::
 
     T_j = T_in + Q (R_jc + R_int + R_sp + R_base + R_sink)
 
@@ -462,7 +462,7 @@ def _bypass_pressure_drop(geometry, bypass: Bypass, branches, density, viscosity
     """``dp(q)`` of each bypass branch [Pa] (a tuple; see ``airflow.parallel_pressure_drop``).
 
     The side gaps and the top gap are separate parallel branches between the same pressures
-    (methods.md h): at a given total they share the flow so that their pressure drops are
+    (docs/methods.md h): at a given total they share the flow so that their pressure drops are
     equal (:func:`finkit.airflow.split_bypass`). Each branch has its own friction on its own
     gap width, so unequal gaps take unequal shares; lumping them into one branch with a mean
     diameter gave up to about 15 % less bypass flow. The fan solver solves the branches
@@ -565,7 +565,7 @@ def solve_airflow(
 
     The approach velocity of :class:`GivenVelocity` is taken over the duct section (finned
     region plus bypass gaps). With a bypass, the flow splits so that the fins and the gaps see
-    the same pressure difference (methods.md h). With a fan, the fan curve, scaled to the inlet
+    the same pressure difference (docs/methods.md h). With a fan, the fan curve, scaled to the inlet
     density and by ``options.fan_pressure_factor``, is crossed with that combined system curve
     plus any extra series loss.
     """
@@ -716,7 +716,7 @@ def _plate_surface(geometry, material, film, airflow, is_shrouded, options, meth
         geometry.base_length,
         geometry.fin_count,
     )
-    # Corrected length only when the tip sees the flow (methods.md, pitfall 5).
+    # Corrected length only when the tip sees the flow (docs/methods.md, pitfall 5).
     length = np.where(is_shrouded, H, H + t / 2.0)
     plate = fins.rectangular_fin_section(t, L, include_edges=False)
     eta_f, mL = _adiabatic_fin(h, material.thermal_conductivity, plate, length)
@@ -776,8 +776,8 @@ def _pin_surface(geometry, material, film, airflow, is_shrouded, options):
 def _surface_resistance(surface: _Surface, capacity):
     """Sink resistance (mean base to inlet air) of a surface before the clamp [K W⁻¹].
 
-    Inlet-referenced h (Teertstra): the air heating is inside h already (methods.md e2, j).
-    Bulk-referenced h: isothermal-base effectiveness, eps = 1 - exp(-NTU) (methods.md j).
+    Inlet-referenced h (Teertstra): the air heating is inside h already (docs/methods.md e2, j).
+    Bulk-referenced h: isothermal-base effectiveness, eps = 1 - exp(-NTU) (docs/methods.md j).
     """
     effectiveness = -np.expm1(-surface.conductance / capacity)
     return np.where(
@@ -885,11 +885,11 @@ def base_spreading(geometry, material, source: HeatSource, sink_resistance):
 
     The centred ``footprint_length x footprint_width`` source on the ``base_length x
     base_width`` plate, with the sink resistance as a uniform coefficient
-    ``h = 1/(R_sink A_base)`` on the finned face (methods.md i2; Yovanovich, Muzychka & Culham
+    ``h = 1/(R_sink A_base)`` on the finned face (docs/methods.md i2; Yovanovich, Muzychka & Culham
     1999). Both the footprint mean (``average``) and the footprint centre (``maximum``, the
     hottest point of the base) are returned, with ``one_dimensional`` = ``t/(k A_base)``.
 
-    The equal-area-disc closed form of Song, Lee & Au (methods.md i1) is not used here: it is
+    The equal-area-disc closed form of Song, Lee & Au (docs/methods.md i1) is not used here: it is
     up to 18 % low for small sources on long plates (5 x 5 mm on 200 x 100 mm), beyond the
     2 % allowed for a replacement of the series.
     """
@@ -1117,7 +1117,7 @@ def _natural_heat_rate(
     Convection: Bar-Cohen & Rohsenow channel coefficient on the channel faces and the base
     between fins, Churchill & Chu on the outer faces of the two end fins, fin efficiency of the
     adiabatic-tip fin with corrected length. Radiation: envelope method at the mean surface
-    temperature T_in + eta_o (T_b - T_in) (methods.md g2, g3).
+    temperature T_in + eta_o (T_b - T_in) (docs/methods.md g2, g3).
     """
     t_in = np.asarray(air.inlet_temperature, float)
     t_sur = t_in if air.surroundings_temperature is None else air.surroundings_temperature

@@ -94,7 +94,7 @@ def spreading_resistance_song_lee_au(
 
     Notes
     -----
-    Source and plate are replaced by discs of equal area (methods.md i1):
+    Source and plate are replaced by discs of equal area (docs/methods.md i1):
 
     .. math::
         a = \sqrt{A_s/\pi},\ b = \sqrt{A_p/\pi},\ \epsilon = a/b,\ \tau = t/b,\
@@ -203,7 +203,8 @@ def spreading_resistance_rectangular_series(
     Notes
     -----
     Separation of variables for an isoflux ``2a x 2b`` source centred on a ``2c x 2d`` plate,
-    adiabatic edges, uniform ``h`` on the opposite face (methods.md i2; half-widths a, b, c, d):
+    adiabatic edges, uniform ``h`` on the opposite face (docs/methods.md i2; half-widths a, b, c,
+    d):
 
     .. math::
         R_{avg} = \frac{1}{2a^2cdk}\sum_m \frac{\sin^2(a\delta_m)\,\phi(\delta_m)}{\delta_m^3}
@@ -439,7 +440,7 @@ def interface_resistance(
     -----
     ``R = resistance``, or ``R = R''/A``, or ``R = BLT/(k A)``. A datasheet bulk conductivity
     usually excludes the two contact resistances at the faces; add them (:func:`contact_resistance`)
-    or use a measured ``R''`` instead (methods.md i3).
+    or use a measured ``R''`` instead (docs/methods.md i3).
 
     Examples
     --------
@@ -487,7 +488,7 @@ def contact_resistance(area_resistance, area):
 
     Notes
     -----
-    Typical ``R''`` (common practice, no single source; methods.md i3): thin greases
+    Typical ``R''`` (common practice, no single source; docs/methods.md i3): thin greases
     5e-6 - 3e-5 m² K W⁻¹, gap pads 5e-5 - 3e-4, dry aluminium on aluminium at low pressure
     1e-4 - 5e-4.
 

@@ -1,6 +1,6 @@
 """Independent scalar re-implementation of the forced-convection plate-fin heat-sink model.
 
-Written from ``methods.md`` (sections a, c, e, f, h, i, j, k) and the cited literature only,
+Written from ``docs/methods.md`` (sections a, c, e, f, h, i, j, k) and the cited literature only,
 without reading finkit's own sink, correlation or model code, to cross-check
 ``finkit.sink`` in ``tests/test_sink_crosscheck.py``. Plain Python floats, the ``math``
 module and ``scipy.optimize.brentq`` / ``scipy.interpolate.PchipInterpolator``; from finkit
@@ -11,43 +11,43 @@ Model (fully shrouded plate fins: the duct wall touches the fin tips, no bypass,
 tip at the fin height H):
 
 * spacing ``b = (W - N t)/(N - 1)``; channel velocity ``V = Q/((N - 1) b H)`` with Q the
-  volume flow at the inlet (methods.md e1, sigma = (N - 1) b / W);
+  volume flow at the inlet (docs/methods.md e1, sigma = (N - 1) b / W);
 * Teertstra, Yovanovich, Culham & Lemczyk (1999) composite Nusselt number on
-  ``Re_b* = (V b / nu) b / L``; h is inlet-referenced (no caloric term) [methods.md e2]. The
+  ``Re_b* = (V b / nu) b / L``; h is inlet-referenced (no caloric term) [docs/methods.md e2]. The
   form was confirmed against two independent public implementations of the same paper (the
   (Re* Pr / 2)^-3 + (0.664 sqrt(Re*) Pr^(1/3) sqrt(1 + 3.65/sqrt(Re*)))^-3 composite);
 * heat-transfer air properties at the film temperature (T_in + T_base)/2, with
   ``T_base = T_in + P R_sink``, solved to convergence with brentq;
 * fin efficiency ``tanh(mH)/(mH)``, ``m = sqrt(2h/(k t))``; ``A_f = 2 H L`` per channel
   (N - 1 channels; the end fins' outer faces touch the shroud), ``A_b = (N - 1) b L``;
-  ``eta_o`` and ``R_sink = 1/(eta_o h A_t)`` [methods.md a, c];
+  ``eta_o`` and ``R_sink = 1/(eta_o h A_t)`` [docs/methods.md a, c];
 * exact rectangular spreading series (Yovanovich, Muzychka & Culham 1999) for the average
   source temperature with ``h = 1/(R_sink W L)`` on the cooled face, plus the 1-D base
-  conduction ``t_b/(k W L)`` [methods.md i2] (finkit's solver uses the series since issue 12;
-  the Song, Lee & Au closed form [methods.md i1], whose lambda_c, Phi_c forms were confirmed
+  conduction ``t_b/(k W L)`` [docs/methods.md i2] (finkit's solver uses the series since issue 12;
+  the Song, Lee & Au closed form [docs/methods.md i1], whose lambda_c, Phi_c forms were confirmed
   against an independent public implementation of Lee et al. (1995), is kept for comparison);
-* junction ``T_j = T_in + P (R_jc + R_int + R_sp + R_base + R_sink)`` [methods.md 0];
-* pressure drop at the inlet air density and viscosity (methods.md e3-e5):
+* junction ``T_j = T_in + P (R_jc + R_int + R_sp + R_base + R_sink)`` [docs/methods.md 0];
+* pressure drop at the inlet air density and viscosity (docs/methods.md e3-e5):
   ``dp = [K_c + 4 f_app L/D_h + K_e] rho V^2/2``, ``D_h = 2 b H/(b + H)``, Shah & London
   fully developed ``f Re`` polynomial on ``alpha = min(b, H)/max(b, H)`` and the composite
   ``f_app Re = sqrt((3.44/sqrt(L*))^2 + (f Re)^2)``, ``L* = L/(D_h Re_Dh)``. Laminar only
   (the cross-check keeps ``Re_Dh`` below 2000). The polynomial coefficients and the 3.44
   composite were confirmed against independent public heat-sink implementations
   (24 - 32.527 a + 46.721 a^2 - 40.829 a^3 + 22.954 a^4 - 6.089 a^5);
-* entrance/exit loss coefficients (methods.md e4), a named choice:
+* entrance/exit loss coefficients (docs/methods.md e4), a named choice:
 
   - ``"kays_london"``: Kays & London theory with momentum-flux coefficient K_d = 1, i.e.
     Borda-Carnot exit ``K_e = (1 - sigma)^2`` and ``K_c = (1/C_c - 1)^2 + K_f`` where the jet
     velocity ratio ``1/C_c = lambda = 1 + 0.622 (1 - 0.215 sigma - 0.785 sigma^2.5)`` and the
     inlet friction term ``K_f = 0.0696 (1 - sigma^2.5) lambda^2`` are Rennels & Hudson's
     sharp-contraction fit (Pipe Flow, Wiley, 2012), the numeric substitute for the K&L C_c
-    chart that methods.md e4 names (it is ``fluids.contraction_sharp(method="Rennels")``
+    chart that docs/methods.md e4 names (it is ``fluids.contraction_sharp(method="Rennels")``
     with ``beta^2 = sigma``). With ``contraction="jet_only"`` the friction term ``K_f`` is
     left out (pure K&L form with C_c from the same fit);
   - ``"culham_muzychka"``: ``K_c = 0.42 (1 - sigma^2)``, ``K_e = (1 - sigma^2)^2`` (Culham &
     Muzychka 2001), confirmed against independent public implementations;
 * fan: PCHIP through the table, pressures scaled by ``rho_in / 1.2``; operating point by
-  brentq on fan minus system (methods.md h);
+  brentq on fan minus system (docs/methods.md h);
 * allowable power: brentq on the power that puts the junction at the limit.
 """
 
@@ -61,7 +61,7 @@ from scipy.optimize import brentq
 
 from finkit.properties.air import air_properties
 
-FAN_RATING_DENSITY = 1.2  # kg/m3, standard air of catalogue fan curves (methods.md h, CP)
+FAN_RATING_DENSITY = 1.2  # kg/m3, standard air of catalogue fan curves (docs/methods.md h, CP)
 
 
 @dataclass(frozen=True)
@@ -112,7 +112,7 @@ def fin_spacing(d: Design) -> float:
 
 
 def open_area_ratio(d: Design) -> float:
-    """sigma = (N - 1) b / W [-] (methods.md e1)."""
+    """sigma = (N - 1) b / W [-] (docs/methods.md e1)."""
     return (d.fin_count - 1) * fin_spacing(d) / d.base_width
 
 
@@ -231,10 +231,10 @@ def spreading_song_lee_au(d: Design, sink_resistance: float) -> float:
 
 
 def spreading_series(d: Design, sink_resistance: float, terms: int = 600) -> float:
-    """Average source spreading resistance, exact rectangular series (methods.md i2) [K/W].
+    """Average source spreading resistance, exact rectangular series (docs/methods.md i2) [K/W].
 
     Yovanovich, Muzychka & Culham (1999): isoflux 2a x 2b source centred on a 2c x 2d plate,
-    uniform h = 1/(R_0 A_plate) on the cooled face. Written here from methods.md i2 with a
+    uniform h = 1/(R_0 A_plate) on the cooled face. Written here from docs/methods.md i2 with a
     fixed, generous number of terms (600 per index: converged to about 0.02 % for these
     designs); numpy is used only to sum the double series.
     """

@@ -81,7 +81,7 @@ def test_stall_region_detected_from_table():
 def test_density_scaling_follows_fan_laws():
     # Common practice, no source consulted: catalogue curves are for standard air,
     # 1.2 kg/m³ (AMCA 210 / ISO 5801); at constant speed dp ∝ rho at equal volume flow
-    # (fan laws, AMCA Publication 99; methods.md h).
+    # (fan laws, AMCA Publication 99; docs/methods.md h).
     q = np.linspace(0.0, FAN.free_delivery, 9)
     assert np.allclose(FAN.pressure(q, density=1.0), FAN.pressure(q) * 1.0 / 1.2, rtol=1e-14)
     # a purely quadratic (turbulent) system scales with rho too: the volumetric operating
@@ -431,9 +431,9 @@ def test_gap_developing_laminar_against_shah_correlation():
     # Source: Shah, R.K., "A correlation for laminar hydrodynamic entry length solutions for
     # circular and noncircular ducts", J. Fluids Eng. 100(2), 177-179, 1978, parallel plates:
     # f_app Re = 3.44/sqrt(x+) + [K(inf)/(4 x+) + 24 - 3.44/sqrt(x+)] / [1 + C x+^-2],
-    # K(inf) = 0.674, C = 2.9e-5 (From memory, as quoted in methods.md e3 and in independent
+    # K(inf) = 0.674, C = 2.9e-5 (From memory, as quoted in docs/methods.md e3 and in independent
     # public implementations). The composite used here agrees within 8 % for x+ = 1e-4..0.1
-    # (methods.md e3 reports ~7 %).
+    # (docs/methods.md e3 reports ~7 %).
     s, w = 2.0e-3, 0.3
     diameter = 2 * s
     reynolds = 1500.0
@@ -498,7 +498,7 @@ def gap_curve(area, diameter=0.006, length=0.1):
 
 @pytest.mark.identity
 def test_split_has_equal_pressure_in_both_branches():
-    # Identity: parallel branches between the same static pressures (methods.md h).
+    # Identity: parallel branches between the same static pressures (docs/methods.md h).
     total = np.linspace(0.0, 0.03, 31)
     area = np.linspace(1e-4, 2e-3, 31)
     sink, gap = sink_curve(), gap_curve(area)

@@ -45,7 +45,7 @@ NEIGHBOUR_STEP = 0.035
 @pytest.mark.parametrize("arrangement", ["inline", "staggered"])
 @pytest.mark.parametrize("pitches", [(0.007, 0.007), (0.014, 0.005)], ids=["square", "wide"])
 def test_zukauskas_sweep_across_100_500_1000_has_no_step(arrangement, pitches):
-    # Table F1 of methods.md (Zukauskas 1987 as tabulated by Bejan 2013): the published
+    # Table F1 of docs/methods.md (Zukauskas 1987 as tabulated by Bejan 2013): the published
     # branches step at 100 (in-line, -8 %), 500 (staggered, +27 %) and 1000 (in-line +27 %).
     st, sl = pitches
     re = np.geomspace(50.0, 3000.0, 200)
@@ -113,7 +113,7 @@ def test_join_warning_states_the_real_step():
 
 @pytest.mark.published
 def test_staggered_wide_transverse_pitch_branch():
-    # Incropera et al. 6th ed. Table 7.5 (Zukauskas 1972), from memory [R in methods.md f1]:
+    # Incropera et al. 6th ed. Table 7.5 (Zukauskas 1972), from memory [R in docs/methods.md f1]:
     # staggered, 1e3 < Re < 2e5: C = 0.35 (S_T/S_L)^(1/5) for S_T/S_L < 2 and C = 0.40 for
     # S_T/S_L > 2, m = 0.60. Confirmed by derivation: 0.35 x 2^0.2 = 0.402, so the two agree
     # (within rounding) where they meet.
@@ -296,7 +296,7 @@ def test_end_fin_outer_faces_are_not_wetted():
 @pytest.mark.identity
 @pytest.mark.parametrize("gaps", [(0.001, 0.006), (0.006, 0.001), (0.004, 0.003)])
 def test_side_and_top_gaps_are_separate_branches(gaps):
-    # Three parallel branches between the same pressures (methods.md h): the fins, the two side
+    # Three parallel branches between the same pressures (docs/methods.md h): the fins, the two side
     # gaps and the top gap, each gap with its own width in its friction. Solved here
     # independently with brentq on the common pressure drop.
     side, top = gaps

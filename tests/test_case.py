@@ -2,7 +2,7 @@
 
 Expected SI values are exact unit definitions (1 in = 25.4 mm and 1 ft = 0.3048 m exactly,
 international yard and pound agreement, 1959; T/K = t/°C + 273.15, SI Brochure 2019;
-conventional inH2O = 249.08891 Pa, methods.md section 0). Bad cases are built by editing a
+conventional inH2O = 249.08891 Pa, docs/methods.md section 0). Bad cases are built by editing a
 starter case, and each test states the one-line message the user must see.
 """
 
@@ -26,7 +26,7 @@ ROOT = Path(__file__).resolve().parents[1]
 DEMOS = sorted((ROOT / "demo_cases").glob("*.yaml"))
 STARTERS = sorted((ROOT / "finkit" / "data" / "starters").glob("*.yaml"))
 FOOT = 0.3048  # Source: international yard and pound agreement (1959), exact
-IN_H2O = 0.0254 * 1000.0 * 9.80665  # Source: methods.md section 0 (conventional), exact
+IN_H2O = 0.0254 * 1000.0 * 9.80665  # Source: docs/methods.md section 0 (conventional), exact
 
 
 def starter(name: str) -> dict:
@@ -77,7 +77,7 @@ def test_validated_values_are_si_floats():
     assert case.limit.required_margin == pytest.approx(5.0, rel=1e-12)
     fan = case.air.flow.fan
     assert case.air.flow.mode == "fan"
-    # Source: CFM = ft³/min exact; inH2O conventional (methods.md section 0)
+    # Source: CFM = ft³/min exact; inH2O conventional (docs/methods.md section 0)
     assert fan.volume_flow[-1] == pytest.approx(14 * FOOT**3 / 60, rel=1e-12)
     assert fan.pressure[0] == pytest.approx(0.18 * IN_H2O, rel=1e-12)
     assert all(isinstance(v, float) for v in fan.volume_flow + fan.pressure)
@@ -253,7 +253,7 @@ def test_interface_needs_exactly_one_form():
 
 
 def test_interface_resistance_over_the_footprint():
-    # Identity: R = R''/A and R = t/(k A) (methods.md section i3)
+    # Identity: R = R''/A and R = t/(k A) (docs/methods.md section i3)
     data = starter("plate-fin")
     case = load_case(data)
     area = case.source.footprint_length * case.source.footprint_width

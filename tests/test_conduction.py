@@ -182,7 +182,7 @@ def test_bare_plate_matches_exact_spreading_series(W, L, t, h, sl, sw, cs):
     fv_spreading = fv.thermal_resistance_source_mean - float(r.one_dimensional) - film
     assert fv_spreading == pytest.approx(float(r.average), rel=0.02)
     # Song-Lee-Au closed form: within its -8 ... +8 % band against the exact solution
-    # (band from the comparison in finkit.spreading, methods.md i1).
+    # (band from the comparison in finkit.spreading, docs/methods.md i1).
     closed = spreading_resistance_song_lee_au(sl * sw, W * L, t, k, film)
     assert -0.08 <= float(closed.average) / fv_spreading - 1.0 <= 0.08
 
@@ -262,7 +262,7 @@ def test_field_shape_symmetry_and_ordering():
 @pytest.mark.identity
 def test_chain_pieces_follow_their_definitions():
     # Identity: the chain adds R_sp + t_b/(k W L) + R_0 with R_0 = 1/(N eta_f h A_f + h A_b)
-    # (methods.md c and i; Incropera 6th ed. section 3.6.5, overall surface efficiency).
+    # (docs/methods.md c and i; Incropera 6th ed. section 3.6.5, overall surface efficiency).
     c = compare_with_chain(**SMALL, tip="convective")
     W, L, tb = SMALL["base_width"], SMALL["base_length"], SMALL["base_thickness"]
     N, t, H = SMALL["fin_count"], SMALL["fin_thickness"], SMALL["fin_height"]

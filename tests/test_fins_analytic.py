@@ -334,7 +334,7 @@ def test_profile_surface_areas_by_quadrature(fn, size, exact_area):
 
 @pytest.mark.identity
 def test_schmidt_close_to_exact_for_moderate_fins():
-    # Schmidt (1949) approximation; methods.md b2 states (computed there) an error within about
+    # Schmidt (1949) approximation; docs/methods.md b2 states (computed there) an error within about
     # -1.5 % for r2c/r1 <= 4 and m (r2c - r1) <= 1. Checked here with a 2 % bound.
     r1, t, k = 0.01, 1e-3, 200.0
     ratio = np.linspace(1.1, 4.0, 30)[:, None]

@@ -40,7 +40,7 @@ def _f_re_exact_series(a, terms=200):
     ],
 )
 def test_shah_london_poiseuille_numbers(aspect_ratio, expected):
-    # the polynomial fit is stated within 0.06 % of the exact values (methods.md e3)
+    # the polynomial fit is stated within 0.06 % of the exact values (docs/methods.md e3)
     assert forced.friction_reynolds_rectangular_shah_london(aspect_ratio) == pytest.approx(
         expected, rel=1e-3
     )
@@ -169,7 +169,7 @@ def test_teertstra_developing_limit(pr):
     pr=st.floats(min_value=0.5, max_value=10.0),
 )
 def test_teertstra_below_fully_heated_limit(re_star, pr):
-    # Energy balance (methods.md e2): an inlet-referenced h can never exceed m_dot c_p / A,
+    # Energy balance (docs/methods.md e2): an inlet-referenced h can never exceed m_dot c_p / A,
     # i.e. Nu_b < Re_b* Pr / 2 (and the developing-flow limit).
     nu = forced.nusselt_plate_channel_teertstra(re_star, pr)
     assert 0 < nu < re_star * pr / 2
@@ -213,7 +213,7 @@ def test_teertstra_and_vdi_agree_after_reference_conversion(fin_count, volume_fl
     # Cross-check between two independently published correlations: Teertstra et al. (1999,
     # inlet-referenced) and the VDI Heat Atlas plane-gap equation (bulk-referenced). Converting
     # the VDI h to the inlet reference with the isothermal-wall effectiveness
-    # h_in = (m c_p / A)(1 - exp(-h A / (m c_p))), A = 2 H L (methods.md j), they agree within
+    # h_in = (m c_p / A)(1 - exp(-h A / (m c_p))), A = 2 H L (docs/methods.md j), they agree within
     # a few per cent for 1 < Re_b* < 100 (tolerance 6 %: Teertstra's fit is 2.1 % RMS to data).
     w, t, h_fin, length = 0.1, 0.001, 0.03, 0.1
     cp = PR * K_AIR / MU
@@ -264,7 +264,7 @@ def test_plate_flow_definitions():
     assert r.pressure_drop == pytest.approx(
         r.pressure_drop_friction + r.pressure_drop_contraction + r.pressure_drop_expansion
     )
-    # friction part in the Fanning form 4 f L / D_h rho V^2 / 2 (methods.md e5)
+    # friction part in the Fanning form 4 f L / D_h rho V^2 / 2 (docs/methods.md e5)
     assert r.pressure_drop_friction == pytest.approx(
         4 * r.fanning_friction_apparent * length / d_h * 0.5 * RHO * r.channel_velocity**2
     )
@@ -423,7 +423,7 @@ def test_incropera_example_7_7_pressure_drop():
         EX77["rho"] * EX77["nu"],
     ).pressure_drop
     # From memory: Incropera et al. 6th ed. Example 7.7, dp = 246 N/m2 (chart values f = 0.35,
-    # chi = 1.04; chart accuracy +-10 %, methods.md f2).
+    # chi = 1.04; chart accuracy +-10 %, docs/methods.md f2).
     assert dp == pytest.approx(246.0, rel=0.10)
     # Cross-check: ht 1.2 dP_Zukauskas (spline fits of the same Zukauskas charts) for this
     # example returns 235.2 Pa (its docstring); the Gaddis & Gnielinski equations agree within 3 %.
@@ -450,7 +450,7 @@ def test_zukauskas_staggered_against_ht(re, st_sl):
 def test_zukauskas_inline_against_ht(re):
     # Cross-check: ht 1.2 Nu_Zukauskas_Bejan, in-line (S_T == S_L). The range 100 <= Re < 1000
     # is left out on purpose: ht's code uses the exponent 0.05 there (a known defect; its own
-    # docstring and methods.md Table F1 give 0.5).
+    # docstring and docs/methods.md Table F1 give 0.5).
     ours = forced.nusselt_pin_bank_zukauskas(re, 0.71, 25, "inline", 0.02, 0.02)
     theirs = ht.Nu_Zukauskas_Bejan(re, 0.71, 25, pitch_parallel=0.02, pitch_normal=0.02)
     assert ours == pytest.approx(theirs, rel=1e-9)
@@ -483,7 +483,7 @@ def test_gaddis_gnielinski_against_zukauskas_charts(re, arrangement, a, b):
     # Cross-check: ht 1.2 dP_Zukauskas (spline fits of the Zukauskas 1972 charts as in
     # Incropera 6th ed.); ht infers in-line from S_T == S_L, which holds for these cases.
     # Two different published methods; for Re >= 1e3 they agree within 20 % (chart data
-    # carry +-10-15 %, methods.md f2). Near and below Re ~ 1e3 the spread is larger (up to
+    # carry +-10-15 %, docs/methods.md f2). Near and below Re ~ 1e3 the spread is larger (up to
     # 35 % at Re = 1e3 in-line, -50 % staggered at Re = 100-300), and ht's staggered fit shows
     # a dip near Re = 5e4, so the check is limited to 2e3 <= Re <= 1e4.
     d, rho, mu = 0.004, 1.2, 1.8e-5

@@ -1,6 +1,6 @@
 """Tests of finkit.geometry: derived areas and counts, validation messages, broadcasting.
 
-The expected values are hand calculations from the definitions stated in methods.md sections e
+The expected values are hand calculations from the definitions stated in docs/methods.md sections e
 and f (fin spacing with flush edge fins, open-area ratio, hydraulic diameters, tube-bank
 maximum-velocity rule); each comment gives the arithmetic so a reviewer can redo it.
 """
@@ -25,7 +25,8 @@ PLATE = dict(
 @pytest.mark.identity
 def test_plate_spacing_and_pitch_from_definition():
     g = PlateFinSink(**PLATE)
-    # Common practice, no source: b = (W - N t)/(N - 1) = (100 - 11)/10 mm = 8.9 mm (methods.md e)
+    # Common practice, no source: b = (W - N t)/(N - 1) = (100 - 11)/10 mm = 8.9 mm
+    # (docs/methods.md e)
     assert g.fin_spacing == pytest.approx(0.0089, rel=1e-12)
     assert g.fin_pitch == pytest.approx(0.0099, rel=1e-12)
     # edge fins flush: N t + (N - 1) b must equal W exactly
@@ -56,7 +57,7 @@ def test_plate_flow_areas_and_hydraulic_diameters():
     assert g.frontal_area == pytest.approx(0.1 * 0.03)
     assert g.overall_frontal_area == pytest.approx(0.1 * 0.035)
     assert g.open_frontal_area == pytest.approx(10 * b * h)
-    # sigma = (N - 1) b / W (methods.md e1) = open / frontal area of the fin region
+    # sigma = (N - 1) b / W (docs/methods.md e1) = open / frontal area of the fin region
     assert g.open_area_ratio == pytest.approx(10 * b / 0.1)
     assert g.open_area_ratio == pytest.approx(g.open_frontal_area / g.frontal_area)
     # D_h = 4 A / P: shrouded rectangle b x H, open-top with three wetted walls

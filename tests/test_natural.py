@@ -107,7 +107,7 @@ def test_churchill_chu_laminar_vs_boundary_layer_theory(Ra):
 
 @pytest.mark.identity
 def test_churchill_chu_all_higher_than_laminar_at_1e8():
-    # methods.md g1 (computed there): the all-Ra form is about 17 % above the laminar form at
+    # docs/methods.md g1 (computed there): the all-Ra form is about 17 % above the laminar form at
     # Ra = 1e8, Pr = 0.71.
     ratio = nusselt_vertical_plate_churchill_chu(1e8, 0.71, "all") / (
         nusselt_vertical_plate_churchill_chu(1e8, 0.71, "laminar")
@@ -126,7 +126,7 @@ def test_churchill_chu_unknown_form():
 @pytest.mark.published
 def test_composite_within_5_percent_of_elenbaas():
     # Source: Bar-Cohen & Rohsenow (1984) built the composite on Elenbaas' (1942) data;
-    # methods.md g2 [V-num]: they agree within about 5 % for El = 1…1000 (largest deviation
+    # docs/methods.md g2 [V-num]: they agree within about 5 % for El = 1…1000 (largest deviation
     # computed here: -5.1 % near El = 10).
     El = np.logspace(0, 3, 61)
     ratio = nusselt_vertical_channel_bar_cohen_rohsenow(El) / nusselt_vertical_channel_elenbaas(El)
@@ -167,7 +167,7 @@ def test_composite_isolated_plate_limit_matches_mcadams(Ra_L):
     [
         # Source: Bar-Cohen & Rohsenow (1984); Incropera 6th ed. Table 9.3 (S_opt constants).
         # 2.714 is printed to 4 figures; 2.15 to 3 figures, while the analytic optimum of the
-        # composite is (2 C1/C2)^(1/6) = 2.1553 (methods.md g2 [V-num]), hence 0.3 %.
+        # composite is (2 C1/C2)^(1/6) = 2.1553 (docs/methods.md g2 [V-num]), hence 0.3 %.
         ("isothermal-symmetric", 2.714, 1e-3),
         ("isothermal-asymmetric", 2.15, 3e-3),
     ],
@@ -190,7 +190,7 @@ def test_optimum_spacing_constant_maximises_nu_over_s2(wall, published, rtol):
 
 @pytest.mark.identity
 def test_optimum_spacing_equivalent_form():
-    # Source: methods.md g2 / Bar-Cohen & Rohsenow (1984): S_opt = 2.714 L Ra_L^(-1/4).
+    # Source: docs/methods.md g2 / Bar-Cohen & Rohsenow (1984): S_opt = 2.714 L Ra_L^(-1/4).
     L, dT, Tf = 0.12, 35.0, 315.0
     rho, mu, k, Pr = air(Tf)
     nu = mu / rho
@@ -198,7 +198,7 @@ def test_optimum_spacing_equivalent_form():
     Ra_L = rayleigh_number(L, dT, Tf, nu, alpha)
     S = optimum_fin_spacing_bar_cohen_rohsenow(L, dT, Tf, nu, alpha)
     assert S == pytest.approx(2.714 * L * Ra_L**-0.25, rel=1e-12)
-    # at S_opt the symmetric composite gives Nu_S about 1.31 (methods.md g2)
+    # at S_opt the symmetric composite gives Nu_S about 1.31 (docs/methods.md g2)
     El = rayleigh_number(S, dT, Tf, nu, alpha) * S / L
     assert nusselt_vertical_channel_bar_cohen_rohsenow(El) == pytest.approx(1.31, abs=0.01)
 

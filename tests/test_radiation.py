@@ -205,7 +205,7 @@ def test_plate_fin_conductance_and_equivalent_h():
 
 
 def test_radiation_share_in_natural_convection():
-    # Common practice, no source (methods.md g3 [CP]): radiation is often 20-40 % of the total
+    # Common practice, no source (docs/methods.md g3 [CP]): radiation is often 20-40 % of the total
     # for black-anodised natural-convection sinks. Isothermal sink at 40 K rise, eps = 0.85.
     a = _sink()
     Ts, Ta = a["surface_temperature"], a["surroundings_temperature"]

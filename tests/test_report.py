@@ -288,7 +288,7 @@ def test_fan_plot_operating_point_lies_on_fan_and_system_curves(results):
     assert np.interp(q, system.get_xdata(), system.get_ydata()) == pytest.approx(dp, rel=0.02)
     assert np.interp(q, fan.get_xdata(), fan.get_ydata()) == pytest.approx(dp, rel=0.02)
     assert q == pytest.approx(result.results["volume_flow"], rel=1e-9)
-    # The secondary axis shows CFM: 1 CFM = 4.719474e-4 m^3/s (exact; methods.md section 0).
+    # The secondary axis shows CFM: 1 CFM = 4.719474e-4 m^3/s (exact; docs/methods.md section 0).
     assert any("CFM" in child.get_xlabel() for child in ax.child_axes)
 
 

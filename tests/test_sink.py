@@ -169,7 +169,7 @@ def test_chain_is_the_sum_of_its_resistances():
     rise = sol.junction_temperature - sol.inlet_air_temperature
     assert rise == pytest.approx(SOURCE.power * sol.total_resistance, rel=1e-9)
     # Spreading is the exact rectangular series for the sink resistance found, as a uniform
-    # coefficient 1/(R_sink A_base) on the finned face (methods.md i2).
+    # coefficient 1/(R_sink A_base) on the finned face (docs/methods.md i2).
     spread = spreading_resistance_rectangular_series(
         0.025, 0.025, 0.06, 0.08, 0.005, 200.0, 1.0 / (sol.sink_resistance * 0.08 * 0.06)
     )

@@ -1,7 +1,8 @@
 """Cross-check of finkit's vectorised plate-fin sink model against an independent re-implementation.
 
-The reference (``tests/reference_sink.py``) was written from methods.md (sections a, c, e, f, h,
-i, j, k) and the cited papers without reading finkit's sink or correlation code. Both sides use
+The reference (``tests/reference_sink.py``) was written from the methods reference (now
+docs/methods.md, sections a, c, e, f, h, i, j, k) and the cited papers without reading
+finkit's sink or correlation code. Both sides use
 the same air-property table (``finkit.properties.air.air_properties``), so agreement is expected
 to round-off and solver tolerance wherever the two implement the same equations.
 
@@ -24,7 +25,7 @@ Modelling choices, and how they are handled here:
   converges with brentq; the difference is < 1e-5 relative in these designs (it reaches about
   1e-3 only for base rises above 100 K at a few CFM).
 * Property reference: both use film-temperature properties for heat transfer and inlet-air
-  properties for pressure drop and fan density (finkit module docstring; methods.md e2, h).
+  properties for pressure drop and fan density (finkit module docstring; docs/methods.md e2, h).
 * Fin perimeter: both use A_f = 2 H L, adiabatic tip at H (fully shrouded, no bypass).
 """
 
@@ -182,7 +183,7 @@ THERMAL_FIELDS = {
 @pytest.mark.identity
 @pytest.mark.parametrize("field", sorted(THERMAL_FIELDS))
 def test_thermal_chain_matches_reference(field, reference_given_flow, finkit_given_flow):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # Same equations on both sides (Teertstra et al. 1999 h at film properties, tanh(mH)/(mH),
     # eta_o, exact rectangular spreading series with h = 1/(R_sink A_base), t_b/(k W L)); the
     # differences are finkit's fixed film-temperature iteration count versus brentq here, worth
@@ -198,9 +199,10 @@ def test_thermal_chain_matches_reference(field, reference_given_flow, finkit_giv
 def test_junction_and_base_temperature_rise_match_reference(
     reference_given_flow, finkit_given_flow
 ):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # T_j = T_in + P (R_jc + R_int + R_sp + R_base + R_sink), R_sink inlet-referenced (no caloric
-    # term, methods.md e2/j); compared as rises over the inlet so the tolerance means something.
+    # term, docs/methods.md e2/j); compared as rises over the inlet so the tolerance means
+    # something.
     junction = np.array([r.junction_temperature for r in reference_given_flow]) - INLET
     base = np.array([r.base_temperature for r in reference_given_flow]) - INLET
     # Junction and allowable power to 1e-3: finkit's truncated spreading series (<= 0.2 % low
@@ -211,9 +213,9 @@ def test_junction_and_base_temperature_rise_match_reference(
 
 @pytest.mark.identity
 def test_air_heating_matches_energy_balance(finkit_given_flow):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
-    # methods.md j: m_dot = rho_in Q, T_out = T_in + P/(m_dot c_p). The c_p reference
-    # temperature is not fixed by methods.md (inlet, film or mean air): c_p of air changes by
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
+    # docs/methods.md j: m_dot = rho_in Q, T_out = T_in + P/(m_dot c_p). The c_p reference
+    # temperature is not fixed by docs/methods.md (inlet, film or mean air): c_p of air changes by
     # < 0.1 % over these temperatures, so the rise is held to 0.5 %.
     rho = np.array([air["density"] for air in INLET_AIR])
     cp = np.array([air["specific_heat"] for air in INLET_AIR])
@@ -224,9 +226,9 @@ def test_air_heating_matches_energy_balance(finkit_given_flow):
 
 @pytest.mark.identity
 def test_designs_cover_the_teertstra_range(reference_given_flow):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # Guard on the sample itself: the comparison must span both limits of the composite
-    # (fully developed Re_b* ~ 1-10 and developing Re_b* ~ 10-100, methods.md e2).
+    # (fully developed Re_b* ~ 1-10 and developing Re_b* ~ 10-100, docs/methods.md e2).
     re_star = np.array([r.reynolds_modified for r in reference_given_flow])
     assert re_star.min() < 8.0
     assert re_star.max() > 40.0
@@ -235,10 +237,10 @@ def test_designs_cover_the_teertstra_range(reference_given_flow):
 @pytest.mark.identity
 @pytest.mark.parametrize("loss_model", ["kays_london", "culham_muzychka"])
 def test_pressure_drop_matches_reference(loss_model):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # Shah & London f Re polynomial + 3.44/sqrt(L*) composite on D_h = 2bH/(b+H), inlet air;
     # "kays_london": K_d = 1, K_e = (1 - sigma)^2, K_c = (1/C_c - 1)^2, C_c from Rennels' fit;
-    # "culham_muzychka": K_c = 0.42 (1 - sigma^2), K_e = (1 - sigma^2)^2 (methods.md e3-e5).
+    # "culham_muzychka": K_c = 0.42 (1 - sigma^2), K_e = (1 - sigma^2)^2 (docs/methods.md e3-e5).
     sol = solve_temperatures(
         GEOMETRY,
         MATERIAL,
@@ -256,7 +258,7 @@ def test_pressure_drop_matches_reference(loss_model):
 
 @pytest.mark.identity
 def test_kays_london_choice_omits_rennels_inlet_friction(finkit_given_flow):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # Documented modelling choice, not a defect: finkit's "kays_london" K_c is the jet-only
     # (1/C_c - 1)^2; the complete Rennels & Hudson sharp-contraction loss
     # (= fluids.contraction_sharp, method "Rennels") adds 0.0696 (1 - sigma^2.5) lambda^2
@@ -278,9 +280,9 @@ def test_kays_london_choice_omits_rennels_inlet_friction(finkit_given_flow):
 
 @pytest.mark.identity
 def test_fan_operating_point_matches_reference():
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # PCHIP fan table scaled by rho_in/1.2 (pressures 75-101 kPa), root of fan - system with
-    # brentq (methods.md h); then the thermal chain at that flow.
+    # brentq (docs/methods.md h); then the thermal chain at that flow.
     sol = solve_temperatures(GEOMETRY, MATERIAL, SOURCE, AIR, FanDriven(FAN), options=TEERTSTRA)
     expected = np.array([case[4] for case in CASES])
     np.testing.assert_allclose(sol.volume_flow, expected, rtol=1e-5)
@@ -297,10 +299,10 @@ def test_fan_operating_point_matches_reference():
 @pytest.mark.identity
 @pytest.mark.parametrize("node", ["junction", "case"])
 def test_allowable_power_matches_reference(node):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # Power that puts the node at 95 °C with the film-temperature feedback included; reference
     # by brentq on the power around the brentq-converged thermal chain. Case = junction minus
-    # P R_jc (methods.md 0).
+    # P R_jc (docs/methods.md 0).
     limit = ZERO_CELSIUS + 95.0
     sol = solve_allowable_power(
         GEOMETRY, MATERIAL, SOURCE, AIR, GivenVolumeFlow(FLOW), node, limit, options=TEERTSTRA
@@ -325,9 +327,9 @@ SWITCH_DESIGNS = [
 @pytest.mark.identity
 @pytest.mark.parametrize(("size", "reaches_turbulent"), SWITCH_DESIGNS)
 def test_friction_switch_above_laminar_limit(size, reaches_turbulent):
-    # Cross-check: independent re-implementation from methods.md (tests/reference_sink.py)
+    # Cross-check: independent re-implementation from docs/methods.md (tests/reference_sink.py)
     # Documented choice: for Re_Dh > 2300 finkit takes the larger of the laminar apparent and
-    # a turbulent smooth-duct Fanning factor (Konakov). methods.md e3 names fluids.friction for
+    # a turbulent smooth-duct Fanning factor (Konakov). docs/methods.md e3 names fluids.friction for
     # the turbulent branch; Cross-check: fluids.friction.friction_factor (Clamond, smooth,
     # Darcy / 4). Konakov and Clamond differ by < 3 % for 2300 < Re < 1e5, so dp is held to 3 %,
     # and it must never fall below the laminar reference.

@@ -33,7 +33,7 @@ def test_half_space_constants():
 
 @pytest.mark.identity
 def test_song_lee_au_no_spreading_when_source_covers_plate():
-    # Source: methods.md i1; a source as large as the plate has no spreading (eps -> 1).
+    # Source: docs/methods.md i1; a source as large as the plate has no spreading (eps -> 1).
     r = spreading_resistance_song_lee_au(0.01, 0.01, 0.005, 200.0, 0.3)
     assert r.average == 0.0 and r.maximum == 0.0
     assert r.one_dimensional == pytest.approx(0.005 / (200.0 * 0.01))
@@ -41,8 +41,8 @@ def test_song_lee_au_no_spreading_when_source_covers_plate():
 
 @pytest.mark.published
 def test_song_lee_au_half_space_limit():
-    # Source: methods.md i1 (Song, Lee & Au 1994): for eps -> 0, tau -> inf the closed form gives
-    # psi_max = 1/sqrt(pi) (exact for an isoflux disc on a half space) and psi_avg = 0.5.
+    # Source: docs/methods.md i1 (Song, Lee & Au 1994): for eps -> 0, tau -> inf the closed form
+    # gives psi_max = 1/sqrt(pi) (exact for an isoflux disc on a half space) and psi_avg = 0.5.
     r = spreading_resistance_song_lee_au(1e-10, 1.0, 5.0, 1.0, 1.0)
     assert r.psi_maximum == pytest.approx(1 / np.sqrt(np.pi), rel=1e-4)
     assert r.psi_average == pytest.approx(0.5, rel=1e-4)
@@ -61,7 +61,7 @@ def _series_for(source_edge, plate_edge, t, k, R0, terms=300):
 @pytest.mark.parametrize("R0", [0.1, 1.0])
 def test_song_lee_au_vs_exact_series(eps, thickness, R0):
     # Independent check: the exact series (Yovanovich, Muzychka & Culham 1999) for square sources
-    # on a 100 mm aluminium plate. methods.md i1 reports -6 … +3 % for eps = 0.1-0.5; over this
+    # on a 100 mm aluminium plate. docs/methods.md i1 reports -6 … +3 % for eps = 0.1-0.5; over this
     # wider grid (thin plates, R0 = 0.1-1 K/W) the deviation computed here is -7.7 … +7.7 %
     # for the mean and -6.4 … +10.2 % for the maximum.
     plate = 0.1
@@ -108,8 +108,9 @@ def test_series_no_spreading_when_source_covers_plate():
     ],
 )
 def test_series_convergence(geometry):
-    # methods.md i2: doubling the number of terms changes the mean-temperature result by < 0.1 %
-    # (200 terms). The centre value converges more slowly; 400 -> 800 terms changes it < 0.5 %.
+    # docs/methods.md i2: doubling the number of terms changes the mean-temperature result by
+    # < 0.1 % (200 terms). The centre value converges more slowly; 400 -> 800 terms changes it
+    # < 0.5 %.
     r1 = spreading_resistance_rectangular_series(*geometry, terms=200)
     r2 = spreading_resistance_rectangular_series(*geometry, terms=400)
     r3 = spreading_resistance_rectangular_series(*geometry, terms=800)
@@ -171,7 +172,7 @@ def test_spreading_input_errors():
 
 @pytest.mark.identity
 def test_interface_three_ways_agree():
-    # R = R''/A = BLT/(k A) (methods.md i3); 50 µm of a 2.5 W/m K paste on 20 x 20 mm.
+    # R = R''/A = BLT/(k A) (docs/methods.md i3); 50 µm of a 2.5 W/m K paste on 20 x 20 mm.
     A = 4e-4
     bulk = interface_resistance(A, thickness=50e-6, thermal_conductivity=2.5)
     assert bulk == pytest.approx(50e-6 / (2.5 * A), rel=1e-12)
@@ -181,7 +182,7 @@ def test_interface_three_ways_agree():
 
 
 def test_thin_grease_typical_resistance():
-    # Common practice, no source (methods.md i3): thin greases 5e-6 - 3e-5 m² K/W; on a
+    # Common practice, no source (docs/methods.md i3): thin greases 5e-6 - 3e-5 m² K/W; on a
     # 20 x 20 mm device that is about 0.01-0.08 K/W.
     lo, hi = contact_resistance(np.array([5e-6, 3e-5]), 4e-4)
     assert 0.01 <= lo < hi <= 0.08
@@ -208,7 +209,7 @@ def test_interface_exactly_one_way(kwargs):
 
 def _converged_series(sl, sw, pl, pw, t, k, h, terms=1500):
     """Mean and centre of the series summed to 1500 x 1500 terms, written out here from
-    methods.md i2 (Yovanovich, Muzychka & Culham 1999) independently of finkit.spreading."""
+    docs/methods.md i2 (Yovanovich, Muzychka & Culham 1999) independently of finkit.spreading."""
     a, b, c, d = sl / 2, sw / 2, pl / 2, pw / 2
 
     def phi(z):
@@ -256,7 +257,7 @@ SPREADING_GRID = [
 @pytest.mark.parametrize("sl, sw, pl, pw", SPREADING_GRID)
 @pytest.mark.parametrize("t, R0", [(3e-3, 0.1), (6e-3, 0.5), (12e-3, 2.0)])
 def test_default_series_length_is_within_2_percent_of_converged(sl, sw, pl, pw, t, R0):
-    # Cross-check: the exact series of methods.md i2 summed to 1500 x 1500 terms (written out
+    # Cross-check: the exact series of docs/methods.md i2 summed to 1500 x 1500 terms (written out
     # above). The solver's series (terms chosen per design) must be within 2 % (issue 12); it is
     # documented as within -0.2 % (mean) and -0.5 % (centre). Centre >= mean everywhere.
     h = 1.0 / (R0 * pl * pw)

@@ -24,7 +24,7 @@ INCH = 0.0254  # Source: international yard and pound agreement (1959), exact
 FOOT = 0.3048  # Source: international yard and pound agreement (1959), exact
 POUND = 0.45359237  # Source: international yard and pound agreement (1959), exact
 CFM = FOOT**3 / 60.0  # exact by the definitions above
-IN_H2O = INCH * 1000.0 * 9.80665  # conventional, exact; methods.md 0 prints 249.0889 Pa
+IN_H2O = INCH * 1000.0 * 9.80665  # conventional, exact; docs/methods.md 0 prints 249.0889 Pa
 
 
 @pytest.mark.identity
@@ -53,7 +53,7 @@ IN_H2O = INCH * 1000.0 * 9.80665  # conventional, exact; methods.md 0 prints 249
         ("12 ft^3/min", "volume_flow", 12 * CFM),
         ("12 CFM", "volume_flow", 12 * CFM),
         ("12 cfm", "volume_flow", 12 * CFM),  # not centi-fermi
-        # Source: conventional inch/millimetre of water (methods.md section 0)
+        # Source: conventional inch/millimetre of water (docs/methods.md section 0)
         ("0.2 inH2O", "pressure", 0.2 * IN_H2O),
         ("3 mmH2O", "pressure", 3 * 9.80665),
         # Source: 1 lb = 0.45359237 kg, 1 ft = 0.3048 m (same agreement)
@@ -91,11 +91,11 @@ def test_bare_numbers_mean_si(value, kind):
 
 @pytest.mark.identity
 def test_water_column_units_are_conventional():
-    # Source: methods.md section 0, 1 inH2O (conventional, 1000 kg/m³, g_n) = 249.0889 Pa
+    # Source: docs/methods.md section 0, 1 inH2O (conventional, 1000 kg/m³, g_n) = 249.0889 Pa
     # (printed to 7 significant figures -> rel 5e-7); 1 mmH2O = 9.80665 Pa.
     assert to_si("1 inH2O", "pressure", "p") == pytest.approx(249.0889, rel=5e-7)
     assert to_si("1 mmH2O", "pressure", "p") == pytest.approx(9.80665, rel=1e-12)
-    # Source: methods.md section 0, 1 CFM = 4.719474e-4 m³/s, 1 ft/min = 0.00508 m/s
+    # Source: docs/methods.md section 0, 1 CFM = 4.719474e-4 m³/s, 1 ft/min = 0.00508 m/s
     assert to_si("1 CFM", "volume_flow", "q") == pytest.approx(4.719474e-4, rel=5e-7)
     assert to_si("1 ft/min", "velocity", "v") == pytest.approx(0.00508, rel=1e-12)
 

@@ -7,7 +7,7 @@ Piecewise laws use ``np.where``/``np.select``. Friction factors are **Fanning** 
 functions never warn; :func:`plate_fin_flow_warnings` and :func:`pin_fin_flow_warnings` turn a
 result into the one-line messages of :func:`finkit.validity.check_range`.
 
-Reference temperature of the heat transfer coefficients (methods.md e2, f1, j):
+Reference temperature of the heat transfer coefficients (docs/methods.md e2, f1, j):
 
 * Teertstra et al. (plate channels, laminar): h is referred to the **inlet** air temperature;
   the air heating is already inside it. Do not add a caloric resistance.
@@ -119,7 +119,7 @@ TEERTSTRA_MODIFIED_REYNOLDS = ValidityRange(
     quantity="Re_b*",
     low=0.1,
     high=100.0,
-    source="Teertstra, Yovanovich, Culham & Lemczyk 1999, abstract (methods.md e2)",
+    source="Teertstra, Yovanovich, Culham & Lemczyk 1999, abstract (docs/methods.md e2)",
 )
 VDI_CHANNEL_PRANDTL = ValidityRange(
     method="VDI Heat Atlas parallel-plate channel, laminar developing flow",
@@ -148,14 +148,14 @@ ZUKAUSKAS_REYNOLDS = ValidityRange(
     quantity="Re_D,max",
     low=1.0,
     high=2.0e6,
-    source="Zukauskas 1987 as tabulated by Bejan 2013 (methods.md f1)",
+    source="Zukauskas 1987 as tabulated by Bejan 2013 (docs/methods.md f1)",
 )
 ZUKAUSKAS_PRANDTL = ValidityRange(
     method="Zukauskas tube-bank correlation (pin array)",
     quantity="Pr",
     low=0.7,
     high=500.0,
-    source="Zukauskas 1972; Incropera et al. 6th ed. Table 7.5 (methods.md f1)",
+    source="Zukauskas 1972; Incropera et al. 6th ed. Table 7.5 (docs/methods.md f1)",
 )
 ZUKAUSKAS_TRANSVERSE_RATIO = ValidityRange(
     method="pin-bank heat transfer (Zukauskas; Gnielinski)",
@@ -293,7 +293,7 @@ def nusselt_plate_channel_teertstra(modified_reynolds, prandtl):
     Notes
     -----
     Composite (n = 3) of the fully developed and developing-flow limits for isothermal parallel
-    plates (methods.md e2):
+    plates (docs/methods.md e2):
 
     .. math::
         Nu_b = \left[\left(\frac{Re_b^* Pr}{2}\right)^{-3}
@@ -493,7 +493,7 @@ def friction_reynolds_rectangular_shah_london(aspect_ratio):
         f Re = 24\,(1 - 1.3553\alpha + 1.9467\alpha^2 - 1.7012\alpha^3 + 0.9564\alpha^4
         - 0.2537\alpha^5)
 
-    within 0.06 % of the exact series for ``alpha = 0.01 ... 1`` (methods.md e3, checked there
+    within 0.06 % of the exact series for ``alpha = 0.01 ... 1`` (docs/methods.md e3, checked there
     numerically; the tests check it against the series again).
 
     References
@@ -530,7 +530,7 @@ def fanning_friction_apparent_rectangular(
 
     Notes
     -----
-    Composite of the short-duct asymptote and the fully developed value (methods.md e3):
+    Composite of the short-duct asymptote and the fully developed value (docs/methods.md e3):
 
     .. math::
         f_{app} Re = \sqrt{\left(\frac{3.44}{\sqrt{L^*}}\right)^2 + (f Re)^2},
@@ -654,7 +654,7 @@ def contraction_ratio_rennels(open_area_ratio):
     Rennels' sharp contraction loss is ``K = 0.0696 (1 - beta^5) lambda^2 + (lambda - 1)^2``
     with ``beta^2 = sigma``; its second term is the Borda-Carnot loss of the vena contracta,
     ``(1/C_c - 1)^2``. The tests confirm lambda against ``fluids.fittings.contraction_sharp``.
-    Used as a numeric substitute for the C_c chart of Kays & London (methods.md e4).
+    Used as a numeric substitute for the C_c chart of Kays & London (docs/methods.md e4).
 
     References
     ----------
@@ -691,7 +691,7 @@ def loss_coefficients_kays_london(open_area_ratio, momentum_coefficient=1.0):
 
     with C_c from :func:`contraction_ratio_rennels`. With ``K_d = 1`` the exit loss is the
     Borda-Carnot loss ``(1 - sigma)^2`` (tests: equal to ``fluids.fittings.diffuser_sharp``).
-    Derived from Bernoulli and momentum balances (methods.md e4).
+    Derived from Bernoulli and momentum balances (docs/methods.md e4).
 
     References
     ----------
@@ -720,7 +720,7 @@ def loss_coefficients_culham_muzychka(open_area_ratio):
 
     Notes
     -----
-    More conservative than Borda-Carnot. The form is recalled from the paper below (methods.md
+    More conservative than Borda-Carnot. The form is recalled from the paper below (docs/methods.md
     e4, tagged [R]) and agrees with several open plate-fin heat-sink models; not checked against
     the original.
 
@@ -765,7 +765,7 @@ def pressure_drop_channel(
     density,
     channel_velocity,
 ):
-    r"""Static pressure drop across a fin channel (methods.md e5).
+    r"""Static pressure drop across a fin channel (docs/methods.md e5).
 
     Parameters
     ----------
@@ -909,14 +909,14 @@ def plate_fin_channel_flow(
 
     Notes
     -----
-    Definitions (methods.md e1): ``b = (W - N t)/(N - 1)``; ``sigma = (N - 1) b / W``;
+    Definitions (docs/methods.md e1): ``b = (W - N t)/(N - 1)``; ``sigma = (N - 1) b / W``;
     approach velocity ``V_app = Q / (W H)`` (fin-region frontal area; base plate outside the
     flow); ``V_ch = V_app / sigma`` (mass conservation, exact); ``Re_b = V_ch b / nu``;
     ``Re_b* = Re_b b / L``; ``D_h = 2 b H / (b + H)`` shrouded, ``4 b H / (b + 2 H)`` open-top
     (the open top is treated as a symmetry plane of a ``b x 2H`` duct, so the friction aspect ratio
     is ``b / 2H``); ``Re_Dh = V_ch D_h / nu``.
 
-    Reference temperature (methods.md e2, j): with ``method="teertstra"`` h is referred to the
+    Reference temperature (docs/methods.md e2, j): with ``method="teertstra"`` h is referred to the
     **inlet** air temperature where ``is_inlet_referenced`` is True: use ``R = 1/(eta_o h A)``
     with no caloric term. Where it is False (VDI: laminar gap, transition, Gnielinski turbulent)
     h is referred to the mean (logarithmic) temperature difference: use the isothermal-base
@@ -933,8 +933,8 @@ def plate_fin_channel_flow(
     solver takes the lower. Inside the VDI correlation its own published Reynolds number
     ``Re_2b`` (on the plane-gap hydraulic diameter 2b) is kept.
 
-    Pressure drop (methods.md e3-e5): ``dp = [K_c + 4 f_app L / D_h + K_e] rho V_ch^2 / 2`` with
-    :func:`fanning_friction_rectangular_channel` and :func:`loss_coefficients`. At zero flow
+    Pressure drop (docs/methods.md e3-e5): ``dp = [K_c + 4 f_app L / D_h + K_e] rho V_ch^2 / 2``
+    with :func:`fanning_friction_rectangular_channel` and :func:`loss_coefficients`. At zero flow
     every pressure drop and h (Teertstra) is 0.
 
     Raises
@@ -1064,7 +1064,7 @@ def pin_bank_max_velocity(
     -----
     In-line: ``V_max = S_T/(S_T - D) V``. Staggered: the same if
     ``S_D >= (S_T + D)/2``, else ``V_max = S_T / (2 (S_D - D)) V`` with
-    ``S_D = sqrt(S_L^2 + (S_T/2)^2)`` (Incropera et al. 6th ed., Eqs. 7.57-7.59; methods.md f).
+    ``S_D = sqrt(S_L^2 + (S_T/2)^2)`` (Incropera et al. 6th ed., Eqs. 7.57-7.59; docs/methods.md f).
     """
     _check_arrangement(arrangement)
     v = _as_float(approach_velocity)
@@ -1115,7 +1115,7 @@ def row_correction_zukauskas(row_count, arrangement):
 
 
 def _zukauskas_constants(arrangement, transverse_pitch, longitudinal_pitch):
-    """Branch boundaries and the (C, m) of each branch of Table F1 (methods.md f1).
+    """Branch boundaries and the (C, m) of each branch of Table F1 (docs/methods.md f1).
 
     Staggered banks with ``S_T/S_L > 2`` take ``C = 0.40`` from 1e3 to 2e5 (Zukauskas 1972 as
     tabulated by Incropera et al. 6th ed. Table 7.5); it is the value of ``0.35 (S_T/S_L)^0.2``
@@ -1225,7 +1225,7 @@ def nusselt_pin_bank_zukauskas(
     .. math::
         Nu_D = C\,C_2(N_L)\,Re_{D,max}^m\,Pr^{0.36}\,(Pr/Pr_s)^{1/4}
 
-    C and m (methods.md Table F1; Zukauskas 1987 as tabulated by Bejan 2013):
+    C and m (docs/methods.md Table F1; Zukauskas 1987 as tabulated by Bejan 2013):
 
     ============  ================  ========================  =====
     arrangement   Re_D,max          C                         m
@@ -1553,7 +1553,7 @@ def nusselt_flat_plate_laminar(reynolds_length, prandtl):
 
     Notes
     -----
-    Used for the exposed base of a pin-fin array (common practice, no source, methods.md f1).
+    Used for the exposed base of a pin-fin array (common practice, no source, docs/methods.md f1).
 
     References
     ----------
@@ -1679,7 +1679,7 @@ def pin_fin_bank_flow(
     -----
     ``V_app = Q / (W H)`` on the pin-region frontal area; ``V_max`` from
     :func:`pin_bank_max_velocity`; ``h = Nu_D k / D`` with :func:`nusselt_pin_bank_zukauskas`,
-    referred to the local bulk air temperature (methods.md f1, j): use ε-NTU; or
+    referred to the local bulk air temperature (docs/methods.md f1, j): use ε-NTU; or
     :func:`nusselt_pin_bank_gnielinski` (also bulk-referenced), or the lower of the two. The
     two are the accepted pin-bank correlations finkit has; neither was fitted to short pins on
     a heated base, so the lower one is the default (finkit's conservative choice). The exposed base
@@ -1767,7 +1767,7 @@ def _masked(values, mask):
     return np.where(mask, _as_float(values), np.nan)
 
 
-#: Reynolds numbers at which Zukauskas' table (Bejan 2013 / ht docs, Table F1 of methods.md
+#: Reynolds numbers at which Zukauskas' table (Bejan 2013 / ht docs, Table F1 of docs/methods.md
 #: f1) changes its constants, by arrangement.
 ZUKAUSKAS_BRANCHES = {"inline": (100.0, 1000.0, 2.0e5), "staggered": (500.0, 1000.0, 2.0e5)}
 

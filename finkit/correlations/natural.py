@@ -267,7 +267,7 @@ def nusselt_vertical_channel_elenbaas(elenbaas):
     Poiseuille flow leaving at wall temperature) and to ``0.60 El^(1/4)`` for large El (isolated
     plate). Range: :data:`ELENBAAS_RANGE`.
 
-    How confirmed: [R] form as recalled in methods.md g2 (from Elenbaas 1942 via Bar-Cohen &
+    How confirmed: [R] form as recalled in docs/methods.md g2 (from Elenbaas 1942 via Bar-Cohen &
     Rohsenow 1984); its small-El limit was re-derived here, and it agrees with the composite of
     :func:`nusselt_vertical_channel_bar_cohen_rohsenow` within about 5 % for El = 1…1000.
 
@@ -322,7 +322,7 @@ def nusselt_vertical_channel_bar_cohen_rohsenow(elenbaas, wall="isothermal-symme
     coefficient of ``Nu_L = 0.59 Ra_L^(1/4)`` (McAdams; as in
     ``ht.conv_free_immersed.Nu_vertical_cylinder_McAdams_Weiss_Saunders``).
 
-    The isoflux composite (C1 = 48 / 24, C2 = 2.51 as recalled in methods.md) is not provided:
+    The isoflux composite (C1 = 48 / 24, C2 = 2.51 as recalled in docs/methods.md) is not provided:
     C1 was re-derived here, but C2 = 2.51 (isolated-plate coefficient 0.631) could not be confirmed
     against a second source; the laminar similarity solution gives 0.520 (C2 = 3.70) at Pr = 0.71.
 
@@ -509,7 +509,7 @@ def plate_fin_array_natural(
 
     Notes
     -----
-    Method (methods.md g2): the gaps are symmetric isothermal vertical channels,
+    Method (docs/methods.md g2): the gaps are symmetric isothermal vertical channels,
     ``Ra_S = g beta dT S^3/(nu alpha)``, ``El = Ra_S S/L``, ``Nu_S`` from
     :func:`nusselt_vertical_channel_bar_cohen_rohsenow`, ``h = Nu_S k / S`` on both fin faces and on
     the base between fins. The two outer faces of the end fins are isolated vertical plates,

@@ -68,7 +68,7 @@ ONE_DIMENSIONAL_FIN_RANGE = ValidityRange(
 )
 
 #: Range in which the Schmidt approximation was compared with the exact annular efficiency
-#: here (error within about -1.5 %; methods.md b2, checked numerically).
+#: here (error within about -1.5 %; docs/methods.md b2, checked numerically).
 SCHMIDT_ANNULAR_RANGE = ValidityRange(
     method="Schmidt (1949) annular fin approximation",
     quantity="m (r2c - r1)",
@@ -702,7 +702,7 @@ def infinite_fin_length(
 
 
 def _annular_core(r1, r2c, m):
-    """Exact annular efficiency in the overflow-free scaled-Bessel form (methods.md b1)."""
+    """Exact annular efficiency in the overflow-free scaled-Bessel form (docs/methods.md b1)."""
     from scipy import special  # here: scipy.special costs 0.1 s at import
 
     a = m * r1

@@ -41,7 +41,7 @@ AIR_TABLE_TEMPERATURE_RANGE = (200.0, 500.0)
 #: Absolute pressures covered by :func:`air_properties` (inclusive) [Pa]. The low end covers
 #: the standard atmosphere up to 20 km (5.47 kPa).
 AIR_TABLE_PRESSURE_RANGE = (5.0e3, 120.0e3)
-#: Specific gas constant of dry air used by the closed forms [J kg⁻¹ K⁻¹] (methods.md k;
+#: Specific gas constant of dry air used by the closed forms [J kg⁻¹ K⁻¹] (docs/methods.md k;
 #: R* / M = 8.31451 / 0.02896546 = 287.049 in CoolProp).
 AIR_SPECIFIC_GAS_CONSTANT = 287.05
 
