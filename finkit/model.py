@@ -1302,9 +1302,10 @@ def volume_flow_for_power(inputs: SinkInputs, points: int = 33) -> float | None:
     The allowable power (limit node at the limit less the required margin) is evaluated on a
     logarithmic grid of total volume flows from 1/20 to 20 times the case's operating flow, with
     the case's bypass (33 points: steps of about 21 %); in the first grid interval where it
-    reaches the stated power, the crossing is solved to 0.1 % of the flow (Brent's method on the
-    logarithm of the flow). A crossing narrower than one grid step could be missed; the flow
-    returned is then larger than the least one, which errs on the safe side for a required flow.
+    reaches the stated power, the crossing is solved to 0.1 % of the flow (Chandrupatla's
+    bracketed method, :func:`finkit.airflow.bracketed_root`, on the logarithm of the flow). A
+    crossing narrower than one grid step could be missed; the flow returned is then larger than
+    the least one, which errs on the safe side for a required flow.
     Forced convection only.
 
     Parameters
@@ -1331,15 +1332,24 @@ def volume_flow_for_power(inputs: SinkInputs, points: int = 33) -> float | None:
     i = int(above[0])
     if i == 0:
         return float(grid[0])
-    from scipy.optimize import brentq
+    from finkit.airflow import bracketed_root
 
-    def short(log_q: float) -> float:
-        q = np.array([np.exp(log_q)])
-        return float(note_sweep(inputs, "airflow", q)["allowable_power"][0]) - target
+    def short(log_q: np.ndarray) -> np.ndarray:
+        q = np.exp(np.atleast_1d(log_q))
+        power = np.asarray(note_sweep(inputs, "airflow", q)["allowable_power"], float)
+        return (power - target).reshape(np.shape(log_q))
 
     if not (np.isfinite(power[i - 1]) and power[i - 1] < target):
         return float(grid[i])
-    return float(np.exp(brentq(short, np.log(grid[i - 1]), np.log(grid[i]), xtol=1e-3)))
+    found = bracketed_root(
+        short,
+        np.log(grid[i - 1]),
+        np.log(grid[i]),
+        lower_value=power[i - 1] - target,
+        upper_value=power[i] - target,
+        xatol=1e-3,
+    )
+    return float(np.exp(found.x))
 
 
 #: Model-form check of a note (:func:`model_form_check`): cells across the smaller base side on

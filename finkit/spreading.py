@@ -20,6 +20,7 @@ from typing import NamedTuple
 import numpy as np
 
 from finkit.errors import GeometryError, InputError
+from finkit.interpolation import uniform_spline
 
 __all__ = [
     "SpreadingResistance",
@@ -283,7 +284,8 @@ def spreading_resistance_rectangular_series(
                 continue
             hk = h[members] / k[members]
             lo, hi = np.log(np.min(hk)), np.log(np.max(hk))
-            nodes = np.exp(np.linspace(lo, hi + 1e-9 * (1 + abs(hi)), _INTERPOLATION_NODES))
+            grid = np.linspace(lo, hi + 1e-9 * (1 + abs(hi)), _INTERPOLATION_NODES)
+            nodes = np.exp(grid)
             one = np.ones_like(nodes)
             ga, gb, gc, gd, gt = (np.full_like(nodes, v) for v in unique[g])
             first = members[0]
@@ -292,10 +294,8 @@ def spreading_resistance_rectangular_series(
                 m_count[first] * one, n_count[first] * one, single[first] * one,
             )  # fmt: skip
             x = np.log(hk)
-            from scipy.interpolate import CubicSpline
-
-            avg[members] = CubicSpline(np.log(nodes), f_avg)(x) / k[members]
-            mx[members] = CubicSpline(np.log(nodes), f_max)(x) / k[members]
+            avg[members] = uniform_spline(grid, f_avg)(x) / k[members]
+            mx[members] = uniform_spline(grid, f_max)(x) / k[members]
             direct[members] = False
     sel = np.flatnonzero(direct)
     if sel.size:

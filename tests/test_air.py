@@ -264,7 +264,7 @@ def test_numpy_spline_is_scipy_cubic_spline():
     # finkit.properties.air reproduces (kept NumPy-only to avoid importing scipy).
     from scipy.interpolate import CubicSpline
 
-    from finkit.properties.air import _cubic_spline_coefficients
+    from finkit.interpolation import uniform_spline_coefficients as _cubic_spline_coefficients
 
     x = np.arange(195.0, 505.5, 5.0)
     y = np.column_stack([np.sqrt(x) * np.log(x), 1.0 / x])

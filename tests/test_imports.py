@@ -68,6 +68,22 @@ def test_a_pin_fin_check_does_not_load_statistics_or_plotting():
     assert sorted(m for m in ("matplotlib", "scipy.stats", "pandas") if m in loaded) == []
 
 
+FAN = PIN.with_name("nb200-plate-fan.yaml")
+
+
+def test_a_fan_cooled_check_with_measurements_loads_no_optimiser_or_interpolation():
+    # The fan curve, the calibration fit, a stopped fan's net curve and the Monte Carlo
+    # spreading interpolation use finkit.interpolation and finkit.airflow.bracketed_root, not
+    # scipy.interpolate / scipy.optimize (0.5 s of imports in each check).
+    loaded = _imported(
+        "from finkit.case import load_case; from finkit.model import run_case; "
+        f"run_case(load_case({str(FAN)!r}))"
+    )
+    assert "finkit.review" in loaded  # the calibration ran
+    heavy = ("matplotlib", "scipy.optimize", "scipy.interpolate", "scipy.stats", "pandas")
+    assert sorted(m for m in heavy if m in loaded) == []
+
+
 def _python(code: str, env: dict | None = None) -> str:
     import os
 

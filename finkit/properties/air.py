@@ -19,6 +19,7 @@ from typing import NamedTuple
 import numpy as np
 
 from finkit.errors import InputError, PropertyRangeError
+from finkit.interpolation import uniform_spline_coefficients
 from finkit.validity import ValidityRange
 
 __all__ = [
@@ -258,32 +259,6 @@ class _AirInterpolant(NamedTuple):
     coefficients: tuple
 
 
-def _cubic_spline_coefficients(x: np.ndarray, y: np.ndarray) -> np.ndarray:
-    """Not-a-knot cubic spline through (x, y) on a uniform grid, in scipy's PPoly layout.
-
-    Returns ``c`` of shape (4, n - 1, ...) with ``S(x) = sum_m c[m] dx**(3 - m)`` on each
-    interval (the same spline as ``scipy.interpolate.CubicSpline``; kept in NumPy so that air
-    properties do not pay for importing scipy). ``y`` may have trailing dimensions.
-    """
-    n, h = x.size, float(x[1] - x[0])
-    a = np.zeros((n, n))
-    rhs = np.zeros((n,) + y.shape[1:])
-    a[0, :3] = (1.0, -2.0, 1.0)  # not-a-knot: third derivative continuous at x[1]
-    a[-1, -3:] = (1.0, -2.0, 1.0)  # ... and at x[-2]
-    for i in range(1, n - 1):
-        a[i, i - 1 : i + 2] = (1.0, 4.0, 1.0)
-        rhs[i] = 6.0 * (y[i + 1] - 2.0 * y[i] + y[i - 1]) / h**2
-    m = np.linalg.solve(a, rhs)  # second derivatives at the nodes
-    return np.stack(
-        [
-            (m[1:] - m[:-1]) / (6.0 * h),
-            m[:-1] / 2.0,
-            (y[1:] - y[:-1]) / h - h * (2.0 * m[:-1] + m[1:]) / 6.0,
-            y[:-1],
-        ]
-    )
-
-
 @functools.cache
 def _air_interpolant() -> _AirInterpolant:
     """Fit the interpolant to the shipped table, once per process (a few ms)."""
@@ -303,7 +278,7 @@ def _air_interpolant() -> _AirInterpolant:
         ab, *_ = np.linalg.lstsq(design, values.T, rcond=None)  # (2, n_T)
         parts = []
         for part in range(2):
-            c = _cubic_spline_coefficients(grid.temperature, ab[part])  # (4, n_T - 1)
+            c = uniform_spline_coefficients(grid.temperature, ab[part])  # (4, n_T - 1)
             parts.append(tuple(np.ascontiguousarray(c[m]) for m in range(4)))
         coefficients.append(tuple(parts))
     return _AirInterpolant(
