@@ -21,6 +21,7 @@ setup: $(STAMP)
 lint: setup
 	$(BIN)/ruff format --check finkit tests bench
 	$(BIN)/ruff check finkit tests bench
+	$(BIN)/lint-imports
 
 test: setup lint
 	bash .ci/ensure_chromium.sh

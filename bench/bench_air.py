@@ -14,7 +14,7 @@ import time
 import numpy as np
 from CoolProp.CoolProp import PropsSI
 
-from finkit.properties.air import (
+from finkit.physics.properties.air import (
     AIR_TABLE_PRESSURE_RANGE,
     AIR_TABLE_TEMPERATURE_RANGE,
     air_properties,

@@ -17,8 +17,8 @@ import time
 import numpy as np
 from scipy.optimize import brentq
 
-from finkit.airflow import FanCurve, bypass_gap_pressure_drop, operating_point_with_bypass
-from finkit.airflow import operating_point as solve_operating_point
+from finkit.physics.airflow import FanCurve, bypass_gap_pressure_drop, operating_point_with_bypass
+from finkit.physics.airflow import operating_point as solve_operating_point
 
 DESIGNS = 100_000
 LOOP_DESIGNS = 2_000

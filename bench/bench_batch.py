@@ -47,7 +47,7 @@ import scipy.optimize
 import matplotlib.pyplot as plt
 
 import finkit
-from finkit import present
+from finkit.report import present
 from finkit.case import load_case
 from finkit.model import run_case, sweep"""
 
@@ -186,7 +186,7 @@ def main(argv: list[str] | None = None) -> int:
     raw = yaml.safe_load(DEMO_BASE.read_text(encoding="utf-8"))
     base = {key: raw[key] for key in CORE_BLOCKS if key in raw}
     rows = variant_rows(args.variants)
-    jobs = args.jobs or batch._usable_cores()
+    jobs = args.jobs or batch.run._usable_cores()
 
     with tempfile.TemporaryDirectory(prefix="finkit-bench-batch-") as scratch:
         scratch = Path(scratch)

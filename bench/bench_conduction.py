@@ -1,4 +1,4 @@
-"""Benchmark: finite-volume conduction solve time against mesh size (finkit.conduction).
+"""Benchmark: finite-volume conduction solve time against mesh size (finkit.physics.conduction).
 
 One plate-fin design (100 x 100 x 5 mm aluminium base, 15 fins 1.5 x 30 mm, h = 40 W/m²K,
 30 x 30 mm source) is solved on nested meshes from about 6e2 solid cells upwards (one quarter
@@ -23,7 +23,7 @@ from __future__ import annotations
 import argparse
 import sys
 
-import finkit.conduction as conduction
+import finkit.physics.conduction as conduction
 
 DESIGN = dict(
     base_width=0.1,

@@ -25,19 +25,19 @@ from dataclasses import replace
 
 import numpy as np
 
-from finkit.airflow import FanCurve
 from finkit.constants import ZERO_CELSIUS
-from finkit.geometry import PlateFinSink
 from finkit.model import SinkInputs
-from finkit.sink import Air, Bypass, FanDriven, GivenVolumeFlow, HeatSource, SinkMaterial
-from finkit.trade import (
+from finkit.model.trade import (
     Envelope,
     ManufacturingBounds,
     minimise_junction_temperature,
     minimise_mass_meeting_limit,
     plate_fin_grid,
 )
-from finkit.uncertainty import Tolerance, monte_carlo, sensitivity
+from finkit.model.uncertainty import Tolerance, monte_carlo, sensitivity
+from finkit.physics.airflow import FanCurve
+from finkit.physics.geometry import PlateFinSink
+from finkit.physics.sink import Air, Bypass, FanDriven, GivenVolumeFlow, HeatSource, SinkMaterial
 
 REPEATS = 2
 FAN = FanCurve(

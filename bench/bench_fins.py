@@ -15,7 +15,7 @@ import time
 
 import numpy as np
 
-from finkit.fins import annular_fin_efficiency, solve_fin, uniform_fin
+from finkit.physics.fins import annular_fin_efficiency, solve_fin, uniform_fin
 
 N_VECTOR = 1_000_000
 N_LOOP = 20_000

@@ -2,7 +2,7 @@
 
 Each design (random fin count, height and thickness on one base) is solved for its fan
 operating point, sink resistance and allowable power. The vectorised path is one call of
-``finkit.sink.solve_allowable_power`` for all designs. The loop, as a user would write it,
+``finkit.physics.sink.solve_allowable_power`` for all designs. The loop, as a user would write it,
 takes one design at a time: ``scipy.optimize.brentq`` on fan pressure minus the sink's pressure
 drop for the operating point, then the chain for that single design. Both run in this process
 on the same designs, so the ratio is measured, not assumed; the loop covers a subset and is
@@ -20,12 +20,12 @@ import time
 import numpy as np
 from scipy.optimize import brentq
 
-from finkit.airflow import FanCurve
 from finkit.constants import CUBIC_FOOT_PER_MINUTE as CFM
 from finkit.constants import ZERO_CELSIUS
-from finkit.geometry import PlateFinSink
-from finkit.properties.air import air_properties
-from finkit.sink import (
+from finkit.physics.airflow import FanCurve
+from finkit.physics.geometry import PlateFinSink
+from finkit.physics.properties.air import air_properties
+from finkit.physics.sink import (
     Air,
     FanDriven,
     GivenVolumeFlow,

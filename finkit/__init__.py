@@ -8,9 +8,10 @@ The top level re-exports the four entry points of the case workflow, imported la
 - :func:`render_note` (``finkit.notes``): case -> executed, dated HTML calculation note;
 - :func:`run_batch` (``finkit.batch``): base case + variant table -> notes and an overview.
 
-The physics lives in the subpackages: ``finkit.fins``, ``finkit.properties``,
-``finkit.correlations``, ``finkit.geometry``, ``finkit.airflow``, ``finkit.radiation``,
-``finkit.spreading`` and ``finkit.sink``.
+The physics lives in the subpackages: ``finkit.physics.fins``, ``finkit.physics.properties``,
+``finkit.physics.correlations``, ``finkit.physics.geometry``, ``finkit.physics.airflow``,
+``finkit.physics.radiation``,
+``finkit.physics.spreading`` and ``finkit.physics.sink``.
 """
 
 from importlib import import_module

@@ -177,10 +177,10 @@ def _condition_lines(payload: dict) -> list[str]:
 
 
 def _check(args) -> int:
-    from finkit.case import load_case
+    from finkit.case.schema import load_case
 
     case = load_case(Path(args.case))
-    from finkit.model import run_case
+    from finkit.model.run import run_case
 
     result = run_case(case)
     payload = result.to_json_dict()
@@ -226,7 +226,7 @@ def _note_template(name: str | None):
     if name is None:
         return None, None
     if name == "trade-study":
-        from finkit import report_trade
+        from finkit.report import trade as report_trade
 
         return report_trade.template_path(), report_trade.results_json
     path = Path(name)
@@ -277,7 +277,7 @@ def _lab(args) -> int:
 
 
 def _compare(args) -> int:
-    from finkit.compare import compare
+    from finkit.report.compare import compare
 
     comparison = compare(args.old, args.new)
     if args.json:
@@ -293,7 +293,7 @@ def _compare(args) -> int:
 
 
 def _schema(args) -> int:
-    from finkit.json_schema import case_schema, results_schema
+    from finkit.model.json_schema import case_schema, results_schema
 
     schema = case_schema() if args.which == "case" else results_schema()
     print(json.dumps(schema, indent=2, ensure_ascii=False))

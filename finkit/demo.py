@@ -39,7 +39,7 @@ def main(argv: list[str] | None = None) -> int:
         options = {}
         if path.name == TRADE_STUDY.name:
             # The trade-study demo gets the trade-study note (front plotted, design chosen).
-            from finkit import report_trade
+            from finkit.report import trade as report_trade
 
             options = {
                 "template": report_trade.template_path(),

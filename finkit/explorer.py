@@ -41,10 +41,10 @@ from typing import Any
 
 import numpy as np
 
-from finkit import present
+from finkit.case.units import format_quantity, from_si
 from finkit.constants import ZERO_CELSIUS
 from finkit.errors import FinkitError, InputError, NotSupportedError
-from finkit.units import format_quantity, from_si
+from finkit.report import present
 
 __all__ = ["CONTROL_NAMES", "ControlSpec", "Explorer", "explore"]
 
@@ -104,7 +104,7 @@ def _convert(value: float, kind: str, unit_from: str, unit_to: str) -> float:
     """A display value from one unit to another (temperatures with their offsets)."""
     if unit_from == unit_to:
         return float(value)
-    from finkit.units import to_si
+    from finkit.case.units import to_si
 
     return float(from_si(to_si(f"{float(value)!r} {unit_from}", kind, "explorer"), kind, unit_to))
 
@@ -122,7 +122,7 @@ class ControlSpec:
     label : str
         Text before the unit in the description.
     kind : str or None
-        Quantity kind of :mod:`finkit.units` (``length``, ``temperature``, ...); None for a
+        Quantity kind of :mod:`finkit.case.units` (``length``, ``temperature``, ...); None for a
         count, a factor or a key.
     unit : str
         Display unit of the control (``mm``, ``degC``, ``W``, ``m``, ``CFM``, ``m/s``, ``-``).
@@ -463,7 +463,7 @@ class Explorer:
     def __init__(self, case, *, dpi: float = 80.0):
         import ipywidgets as widgets
 
-        from finkit.case import Case, load_case
+        from finkit.case.schema import Case, load_case
 
         validated = case if isinstance(case, Case) else load_case(case)
         if getattr(validated, "kind", None) != "heat-sink":
@@ -588,7 +588,7 @@ class Explorer:
 
         from matplotlib.figure import Figure
 
-        from finkit.report import _style
+        from finkit.report.formatting import _style
 
         with _style():  # the notes' look; axes are made once and reused by every update
             self.figure = Figure(figsize=(9.6, 7.0), dpi=self._dpi)
@@ -685,7 +685,7 @@ class Explorer:
     # Controls
 
     def _material_options(self):
-        from finkit.properties.materials import get_material, list_materials
+        from finkit.physics.properties.materials import get_material, list_materials
 
         out = []
         for key in list_materials(self._user_materials):
@@ -694,7 +694,7 @@ class Explorer:
         return out
 
     def _finish_options(self, material_key: str):
-        from finkit.properties.materials import get_material
+        from finkit.physics.properties.materials import get_material
 
         material = get_material(material_key, self._user_materials)
         return [(f"{finish} (ε {eps:.2f})", finish) for finish, eps in material.emissivity.items()]
@@ -783,7 +783,7 @@ class Explorer:
                     + ("" if spec.unit == "-" else f" in {spec.unit}")
                 ) from None
             return int(number) if isinstance(spec.value, int | np.integer) else number
-        from finkit.units import from_si, to_si
+        from finkit.case.units import from_si, to_si
 
         return float(from_si(to_si(value, spec.kind, f"explorer.{name}"), spec.kind, spec.unit))
 
@@ -862,8 +862,8 @@ class Explorer:
             The nominal result, or None when the settings do not make a valid case or the
             model cannot solve them (:attr:`error` says why; the plots keep the last state).
         """
-        from finkit.case import load_case
-        from finkit.model import run_case
+        from finkit.case.schema import load_case
+        from finkit.model.run import run_case
 
         start = time.perf_counter()
         try:
@@ -892,8 +892,8 @@ class Explorer:
 
     def _curves(self, result) -> dict[str, Any]:
         """Every curve of the plots, from finkit.model (vectorised calls)."""
-        from finkit.model import fan_pressure, note_sweep, system_curve
-        from finkit.sink import FanDriven, NaturalConvection
+        from finkit.model.design import fan_pressure, note_sweep, system_curve
+        from finkit.physics.sink import FanDriven, NaturalConvection
 
         inputs = result.inputs
         t_in = float(np.asarray(inputs.air.inlet_temperature))
@@ -922,7 +922,7 @@ class Explorer:
         return out
 
     def _draw(self, result, curves) -> None:
-        from finkit.report import COLOURS, _style
+        from finkit.report.formatting import COLOURS, _style
 
         with _style():
             for ax in self._axes.ravel():
@@ -1117,7 +1117,7 @@ class Explorer:
 
     @staticmethod
     def _is_forced(result) -> bool:
-        from finkit.sink import NaturalConvection
+        from finkit.physics.sink import NaturalConvection
 
         return not isinstance(result.inputs.flow, NaturalConvection)
 
@@ -1255,7 +1255,7 @@ class Explorer:
         import yaml
 
         import finkit
-        from finkit.case import load_case
+        from finkit.case.schema import load_case
 
         path = Path(path)
         if path.suffix not in (".yaml", ".yml"):

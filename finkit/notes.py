@@ -11,8 +11,8 @@ Contract for notebook templates (``templates/<kind>.ipynb`` at the top of the so
   file: unit strings such as ``"2.5 mm"`` stay strings) and ``note_time`` (a str, ISO 8601 with
   time zone). Papermill adds a cell tagged ``injected-parameters`` after it with the values of
   the run; the ``parameters`` cell itself is left out of the HTML.
-* Text from the case is shown only through :mod:`finkit.present` (escaped); equations through
-  :func:`finkit.present.equation` (no ``$...$`` in Markdown: there is no MathJax).
+* Text from the case is shown only through :mod:`finkit.report.present` (escaped); equations through
+  :func:`finkit.report.present.equation` (no ``$...$`` in Markdown: there is no MathJax).
 * The page frame (document control header, provenance, sign-off block, page numbers in print)
   comes from ``nb.metadata["finkit"]``, which :func:`render_note` fills; templates do not repeat
   it. Templates write no files (they run in a scratch folder that is deleted).
@@ -47,8 +47,8 @@ from html.parser import HTMLParser
 from pathlib import Path
 from typing import Any, NamedTuple
 
-from finkit import handover
 from finkit.errors import FinkitError, InputError, NotSupportedError
+from finkit.model import handover
 
 __all__ = [
     "KERNEL_NAME",
@@ -286,7 +286,7 @@ def prepare_case(
     if validate:
         # load_case reads the file itself (duplicate keys, YAML errors, source path) and keeps
         # the case as entered in ``.entered``.
-        from finkit.case import load_case
+        from finkit.case.schema import load_case
 
         source = dict(case) if isinstance(case, Mapping) else Path(case)
         validated: Any = load_case(source)
@@ -498,7 +498,7 @@ def inputs_sha256(case: Any) -> str:
         64 hexadecimal digits. [-]
     """
     if hasattr(case, "model_dump"):
-        from finkit.case import case_inputs_sha256
+        from finkit.case.schema import case_inputs_sha256
 
         return case_inputs_sha256(case)
     canonical = json.dumps(
@@ -793,10 +793,9 @@ def render_html(nb: Any, *, show_code: bool = False, paper: str = "A4") -> str:
 _WARM_MODULES = (
     "finkit.report",
     "finkit.model",
-    "finkit.review",
-    "finkit.uncertainty",
-    "finkit.compare",
-    "scipy.interpolate",
+    "finkit.model.review",
+    "finkit.model.uncertainty",
+    "finkit.report.compare",
     "matplotlib.figure",
     "matplotlib.backends.backend_agg",
 )
@@ -804,7 +803,7 @@ _WARM_IMPORTS = (
     f"for __finkit_module in {_WARM_MODULES!r}:\n"
     "    __import__(__finkit_module)\n"
     "del __finkit_module\n"
-    "__import__('finkit.units', fromlist=['_ureg'])._ureg()\n"
+    "__import__('finkit.case.units', fromlist=['_ureg'])._ureg()\n"
 )
 
 
@@ -817,7 +816,8 @@ class _ComparisonPrefetch:
     """Solve the cases of the comparison with the previous revision in a forked process.
 
     Comparing a case with its previous revision solves that revision and the cases its
-    attribution tries (:func:`finkit.compare.prefetch`), none of which needs the current case's
+    attribution tries (:func:`finkit.report.compare.prefetch`), none of which needs the current
+    case's
     results; a child forked before the kernel starts solves them while the parent solves the
     case, on the second core, and hands the solutions back through a file in the scratch
     folder (issue 15). Nothing but the content-keyed solution caches comes back; anything that
@@ -837,7 +837,7 @@ class _ComparisonPrefetch:
             try:
                 import pickle
 
-                from finkit import compare
+                from finkit.report import compare
 
                 compare.prefetch(previous.source, entered)
                 atomic_write(self.path, pickle.dumps(compare.cached_solutions()))
@@ -863,7 +863,7 @@ class _ComparisonPrefetch:
         try:
             import pickle
 
-            from finkit import compare
+            from finkit.report import compare
 
             with open(self.path, "rb") as handle:
                 compare.add_cached_solutions(pickle.load(handle))
@@ -1057,7 +1057,7 @@ def render_note(
         ``results(validated_case) -> mapping`` written to ``results.json``; default
         ``finkit.model.run_case(case).to_json_dict()``, whose solution is also handed to the
         kernel when the template takes a ``solved`` parameter
-        (:func:`finkit.handover.write_solved`), so the note never solves its case twice. [-]
+        (:func:`finkit.model.handover.write_solved`), so the note never solves its case twice. [-]
     kernel_manager : jupyter_client.KernelManager, optional
         Execute with this kernel manager (passed to papermill as ``km``) instead of starting
         the kernel ``kernel_name``; :mod:`finkit.batch` passes an in-process kernel here.
@@ -1115,7 +1115,7 @@ def render_note(
             if results is None and "solved" in template_parameters:
                 if getattr(prepared.validated, "previous_revision", None) is not None:
                     # Imported once, before the fork, rather than in both processes.
-                    for name in ("finkit.model", "finkit.review", "finkit.compare"):
+                    for name in ("finkit.model", "finkit.model.review", "finkit.report.compare"):
                         importlib.import_module(name)
                 prefetch = _ComparisonPrefetch(prepared.validated, scratch)
             # Started before the solve, so the kernel boots while the case is solved.
@@ -1123,7 +1123,7 @@ def render_note(
         clock.mark("start kernel")
         parameters: dict[str, Any] = {"case": prepared.case, "note_time": note_time}
         if results is None:
-            from finkit.model import run_case
+            from finkit.model.run import run_case
 
             solved = run_case(prepared.validated)
             result_dict = dict(solved.to_json_dict())
@@ -1131,7 +1131,7 @@ def render_note(
             if "solved" in template_parameters:
                 extra = {}
                 if getattr(prepared.validated, "previous_revision", None) is not None:
-                    from finkit.report import changes_since
+                    from finkit.report.inputs import changes_since
 
                     if prefetch is not None:
                         prefetch.collect(timeout)

@@ -2,7 +2,7 @@
 
 A light module (numpy only; scipy.special is imported when a tolerance is sampled) so that the
 case schema can validate a ``tolerances`` block without loading the solver. The Monte Carlo and
-sensitivity studies that use these tolerances are in :mod:`finkit.uncertainty`, which
+sensitivity studies that use these tolerances are in :mod:`finkit.model.uncertainty`, which
 re-exports every name here.
 """
 
@@ -26,7 +26,7 @@ DEFAULT_TRUNCATION = 4.0
 
 
 class _InputSpec(NamedTuple):
-    kind: str  # units kind of the value (finkit.units.KINDS)
+    kind: str  # units kind of the value (finkit.case.units.KINDS)
     difference_kind: str  # units kind of an absolute spread
     allows_relative: bool
     allows_absolute: bool  # absolute spread and low/high bounds

@@ -2,9 +2,9 @@
 
 Written from ``docs/methods.md`` (sections a, c, e, f, h, i, j, k) and the cited literature only,
 without reading finkit's own sink, correlation or model code, to cross-check
-``finkit.sink`` in ``tests/test_sink_crosscheck.py``. Plain Python floats, the ``math``
+``finkit.physics.sink`` in ``tests/test_sink_crosscheck.py``. Plain Python floats, the ``math``
 module and ``scipy.optimize.brentq`` / ``scipy.interpolate.PchipInterpolator``; from finkit
-only the air-property table (``finkit.properties.air.air_properties``) is used, so that both
+only the air-property table (``finkit.physics.properties.air.air_properties``) is used, so that both
 sides see the same air.
 
 Model (fully shrouded plate fins: the duct wall touches the fin tips, no bypass, adiabatic fin
@@ -59,7 +59,7 @@ from dataclasses import dataclass
 from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq
 
-from finkit.properties.air import air_properties
+from finkit.physics.properties.air import air_properties
 
 FAN_RATING_DENSITY = 1.2  # kg/m3, standard air of catalogue fan curves (docs/methods.md h, CP)
 

@@ -1,11 +1,11 @@
-"""Tests of finkit.properties.air against CoolProp, textbook tables and fluids."""
+"""Tests of finkit.physics.properties.air against CoolProp, textbook tables and fluids."""
 
 import numpy as np
 import pytest
 from CoolProp.CoolProp import PropsSI
 
 from finkit.errors import InputError
-from finkit.properties.air import (
+from finkit.physics.properties.air import (
     AIR_TABLE_PRESSURE_RANGE,
     AIR_TABLE_TEMPERATURE_RANGE,
     AirProperties,
@@ -60,7 +60,7 @@ def test_shipped_table_is_the_installed_coolprop():
     # Cross-check: re-tabulating a few grid rows with the installed CoolProp reproduces the
     # shipped file (printed to 13 significant figures). Fails after a CoolProp upgrade that
     # changes air: then run finkit/data/make_air_table.py and review the diff.
-    from finkit.properties.air import _read_air_grid
+    from finkit.physics.properties.air import _read_air_grid
 
     shipped = _read_air_grid()
     rows = [0, 21, 62]
@@ -261,7 +261,7 @@ def test_coolprop_reference_outside_table_and_errors():
 @pytest.mark.identity
 def test_numpy_spline_is_scipy_cubic_spline():
     # Cross-check: scipy.interpolate.CubicSpline (not-a-knot), which the NumPy-only spline in
-    # finkit.properties.air reproduces (kept NumPy-only to avoid importing scipy).
+    # finkit.physics.properties.air reproduces (kept NumPy-only to avoid importing scipy).
     from scipy.interpolate import CubicSpline
 
     from finkit.interpolation import uniform_spline_coefficients as _cubic_spline_coefficients

@@ -1,4 +1,4 @@
-"""Tests of finkit.airflow: fan curves, the vectorised operating point, and flow bypass.
+"""Tests of finkit.physics.airflow: fan curves, the vectorised operating point, and flow bypass.
 
 The fan tables below are invented shapes (a falling curve, and one with a stall dip); no
 published fan is needed because every check is an identity (closed-form intersection, fan
@@ -13,7 +13,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from finkit.airflow import (
+from finkit.errors import InputError, NotSupportedError, SolverError
+from finkit.physics.airflow import (
     STANDARD_AIR_DENSITY,
     FanCurve,
     bracketed_root,
@@ -24,7 +25,6 @@ from finkit.airflow import (
     split_bypass,
     split_bypass_at_approach_velocity,
 )
-from finkit.errors import InputError, NotSupportedError, SolverError
 
 FLOWS = [0.0, 0.004, 0.008, 0.011, 0.014, 0.018, 0.022, 0.026]
 # falling everywhere (no stall)
@@ -228,7 +228,7 @@ def test_bad_tables_name_the_field_and_index(kwargs, pattern):
 
 
 def test_fan_table_problems_are_data_one_per_rule():
-    from finkit.airflow import fan_table_problems
+    from finkit.physics.airflow import fan_table_problems
 
     assert fan_table_problems([0.0, 0.01, 0.02], [50.0, 20.0, 0.0]) == ()
     problems = fan_table_problems([0.001, 0.01, 0.005], [50.0, 0.0, 3.0, 1.0])

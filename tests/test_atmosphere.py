@@ -1,4 +1,4 @@
-"""Tests of finkit.properties.atmosphere against U.S. Standard Atmosphere 1976 values."""
+"""Tests of finkit.physics.properties.atmosphere against U.S. Standard Atmosphere 1976 values."""
 
 import numpy as np
 import pytest
@@ -6,7 +6,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from finkit.errors import InputError
-from finkit.properties.atmosphere import (
+from finkit.physics.properties.atmosphere import (
     ALTITUDE_RANGE,
     geopotential_altitude,
     pressure_at_altitude,

@@ -64,7 +64,10 @@ TEMPLATE_CELLS = [
         '# Parameters\ncase = {"case_id": "fixture", "kind": "heat-sink"}  # case as entered\n'
         'note_time: str = ""  # ISO 8601 with time zone',
     ),
-    ("code", "from finkit import present\n\npresent.heading(case['title_block']['description'])"),
+    (
+        "code",
+        "from finkit.report import present\n\npresent.heading(case['title_block']['description'])",
+    ),
     (
         "code",
         "import os\nimport time\n\nmode = case['title_block']['description']\n"
@@ -321,7 +324,7 @@ def test_overview_escapes_variant_text_and_runs_only_its_own_script(tmp_path):
         "base_case_id": "test-base",
         "variant_table": XSS,
         "exit_code": 2,
-        "counts": batch._counts(outcomes),
+        "counts": batch.records._counts(outcomes),
     }
     page = batch.overview_html(info, outcomes, tmp_path)
     assert "<b>co</b>" not in page

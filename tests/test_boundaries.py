@@ -12,13 +12,13 @@ import numpy as np
 import pytest
 from scipy.optimize import brentq
 
-from finkit.airflow import bypass_gap_pressure_drop
 from finkit.constants import CUBIC_FOOT_PER_MINUTE as CFM
 from finkit.constants import ZERO_CELSIUS
-from finkit.correlations import forced
-from finkit.geometry import PlateFinSink
-from finkit.properties.air import air_properties
-from finkit.sink import (
+from finkit.physics.airflow import bypass_gap_pressure_drop
+from finkit.physics.correlations import forced
+from finkit.physics.geometry import PlateFinSink
+from finkit.physics.properties.air import air_properties
+from finkit.physics.sink import (
     Air,
     Bypass,
     GivenVolumeFlow,
@@ -336,7 +336,7 @@ def test_fan_with_two_bypass_branches_one_system_or_nested():
     # The fan solver takes the side and top gaps as separate unknowns (one Newton system with
     # an arrow-shaped Jacobian); combining them first into one branch by a nested split must
     # give the same operating point.
-    from finkit.airflow import FanCurve, operating_point_with_bypass, parallel_pressure_drop
+    from finkit.physics.airflow import FanCurve, operating_point_with_bypass, parallel_pressure_drop
 
     air = air_properties(AIR.inlet_temperature, AIR.pressure)
     rho, mu = air.density, air.dynamic_viscosity
@@ -369,12 +369,8 @@ def test_given_flow_split_among_branches_is_the_nested_split():
     # The given-flow split solves the fins, the side gaps and the top gap as one Newton system
     # (issue 15); the nested split of parallel_pressure_drop stays the reference and must give
     # the same flows, for several flows at once, a zero flow and a closed top gap (top = 0).
-    from finkit.airflow import (
-        _split_newton,
-        parallel_pressure_drop,
-        split_among_branches,
-        split_bypass,
-    )
+    from finkit.physics.airflow import parallel_pressure_drop, split_among_branches, split_bypass
+    from finkit.physics.airflow.bypass import _split_newton
 
     air = air_properties(AIR.inlet_temperature, AIR.pressure)
     rho, mu = air.density, air.dynamic_viscosity

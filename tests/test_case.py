@@ -335,7 +335,7 @@ def test_fan_curve_rules():
 
 
 def test_fan_table_is_checked_by_the_fan_curves_own_rules():
-    # One source for the fan-table rules (finkit.airflow.fan_table_problems): a table that
+    # One source for the fan-table rules (finkit.physics.airflow.fan_table_problems): a table that
     # starts above zero flow, drops to zero pressure before its end, or ends above zero
     # pressure is refused by the case file's checks, on the case's own fields; before, such a
     # table passed validation and failed later inside the model.
@@ -352,8 +352,8 @@ def test_fan_table_is_checked_by_the_fan_curves_own_rules():
 def test_every_fan_table_a_case_accepts_makes_a_fan_curve():
     import numpy as np
 
-    from finkit.airflow import FanCurve
     from finkit.errors import InputError
+    from finkit.physics.airflow import FanCurve
 
     rng = np.random.default_rng(3)
     accepted = 0
@@ -401,7 +401,8 @@ def test_fins_must_fit_and_pins_must_not_touch():
     data["sink"]["fins"]["count"] = 70
     (message,) = errors_of(data)
     assert message.startswith("sink.fins: 70 fins of 1.2 mm do not fit on sink.base.width 80 mm")
-    # One rule (finkit.geometry.fins_fit): fins that leave a gap thinner than the geometry's fit
+    # One rule (finkit.physics.geometry.fins_fit): fins that leave a gap thinner than the
+    # geometry's fit
     # tolerance are refused by the case check too, not first by the model.
     data["sink"]["fins"]["count"] = 40
     data["sink"]["fins"]["thickness"] = f"{80 / 40 * (1 - 1e-12)} mm"
@@ -496,11 +497,11 @@ def test_kind_is_checked_first():
 
 
 # --------------------------------------------------------------------------------------------
-# Materials (checked against finkit.properties.materials once it exists)
+# Materials (checked against finkit.physics.properties.materials once it exists)
 
 
 def test_material_keys_and_finishes():
-    pytest.importorskip("finkit.properties.materials")
+    pytest.importorskip("finkit.physics.properties.materials")
     data = starter("plate-fin")
     data["sink"]["material"] = "unobtainium"
     (message,) = errors_of(data)
@@ -518,7 +519,7 @@ def test_material_keys_and_finishes():
 
 
 def test_user_materials():
-    materials = pytest.importorskip("finkit.properties.materials")
+    materials = pytest.importorskip("finkit.physics.properties.materials")
     data = starter("plate-fin")
     data["sink"]["material"] = "nb-alloy"
     data["materials"] = {

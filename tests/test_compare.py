@@ -18,9 +18,9 @@ import pytest
 import yaml
 
 from finkit.case import load_case
-from finkit.compare import compare, load_revision
 from finkit.errors import InputError
 from finkit.model import run_case
+from finkit.report.compare import compare, load_revision
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_cases"

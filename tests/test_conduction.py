@@ -1,8 +1,8 @@
-"""Tests of finkit.conduction: the finite-volume conduction model of a plate-fin heat sink.
+"""Tests of finkit.physics.conduction: the finite-volume conduction model of a plate-fin heat sink.
 
 The conduction solution is checked against things outside it: the closed-form fin of
 Incropera Table 3.4 (case A), the exact spreading series of Yovanovich, Muzychka & Culham
-(finkit.spreading, itself checked against half-space limits in tests/test_spreading.py),
+(finkit.physics.spreading, itself checked against half-space limits in tests/test_spreading.py),
 mesh convergence, the energy balance and linearity. Meshes are kept coarse so the file runs in
 a few seconds.
 """
@@ -10,16 +10,16 @@ a few seconds.
 import numpy as np
 import pytest
 
-from finkit.conduction import (
+from finkit.errors import GeometryError, InputError
+from finkit.physics.conduction import (
     CONDUCTION_SOLVERS,
     _richardson,
     compare_with_chain,
     refine_study,
     solve_plate_fin_conduction,
 )
-from finkit.errors import GeometryError, InputError
-from finkit.fins.analytic import uniform_fin
-from finkit.spreading import (
+from finkit.physics.fins.analytic import uniform_fin
+from finkit.physics.spreading import (
     spreading_resistance_rectangular_series,
     spreading_resistance_song_lee_au,
 )
@@ -79,7 +79,7 @@ def test_bare_plate_converges_at_second_order_to_exact_series():
     # Identity: a 2nd-order finite-volume scheme; the flux jump at the source edge costs a little
     # (observed ~1.9). The extrapolated value must agree with the exact series.
     # Source: Yovanovich, Muzychka & Culham, J. Thermophys. Heat Transfer 13 (1999) 495-500,
-    # via finkit.spreading.spreading_resistance_rectangular_series (400 terms: 4 figures).
+    # via finkit.physics.spreading.spreading_resistance_rectangular_series (400 terms: 4 figures).
     W = L = 0.1
     t, k, h, s = 0.005, 200.0, 500.0, 0.03
     study = refine_study(W, L, t, 0, 0.0, 0.0, k, h, s, s, mesh_cell_size=0.01)
@@ -148,7 +148,8 @@ def test_single_fin_matches_incropera_case_a():
     assert errors[2] < errors[1] < errors[0]  # converges to the closed form
     assert errors[2] < 0.01  # within 1 % at the finest mesh (about 0.25 %)
     assert tip_error < 0.01
-    # the library's closed form is the same (finkit.fins.analytic.uniform_fin, tip="convective")
+    # the library's closed form is the same (finkit.physics.fins.analytic.uniform_fin,
+    # tip="convective")
     ref = uniform_fin(H, 2 * L, t * L, k, h, theta_b, tip="convective")
     assert float(ref.heat_rate) == pytest.approx(q, rel=1e-12)
 
@@ -168,7 +169,8 @@ BARE_PLATES = [
 @pytest.mark.parametrize("W,L,t,h,sl,sw,cs", BARE_PLATES)
 def test_bare_plate_matches_exact_spreading_series(W, L, t, h, sl, sw, cs):
     # Source: Yovanovich, Muzychka & Culham, J. Thermophys. Heat Transfer 13 (1999) 495-500,
-    # exact series via finkit.spreading.spreading_resistance_rectangular_series (checked against
+    # exact series via finkit.physics.spreading.spreading_resistance_rectangular_series (checked
+    # against
     # the half-space limits in tests/test_spreading.py). Isoflux centred source, uniform h on the
     # opposite face, adiabatic edges: the same problem as the bare plate here.
     k = 200.0
@@ -182,7 +184,7 @@ def test_bare_plate_matches_exact_spreading_series(W, L, t, h, sl, sw, cs):
     fv_spreading = fv.thermal_resistance_source_mean - float(r.one_dimensional) - film
     assert fv_spreading == pytest.approx(float(r.average), rel=0.02)
     # Song-Lee-Au closed form: within its -8 ... +8 % band against the exact solution
-    # (band from the comparison in finkit.spreading, docs/methods.md i1).
+    # (band from the comparison in finkit.physics.spreading, docs/methods.md i1).
     closed = spreading_resistance_song_lee_au(sl * sw, W * L, t, k, film)
     assert -0.08 <= float(closed.average) / fv_spreading - 1.0 <= 0.08
 

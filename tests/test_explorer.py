@@ -193,7 +193,7 @@ def test_every_control_shows_its_unit(demo):
 
 
 def test_finish_options_follow_the_material(demo):
-    from finkit.properties.materials import get_material
+    from finkit.physics.properties.materials import get_material
 
     _, explorer = demo
     explorer.reset()

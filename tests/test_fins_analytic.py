@@ -1,4 +1,4 @@
-"""Tests of finkit.fins.analytic: closed-form single fins."""
+"""Tests of finkit.physics.fins.analytic: closed-form single fins."""
 
 from __future__ import annotations
 
@@ -9,7 +9,7 @@ from hypothesis import strategies as st
 from scipy.integrate import quad
 
 from finkit.errors import InputError
-from finkit.fins import (
+from finkit.physics.fins import (
     ONE_DIMENSIONAL_FIN_RANGE,
     TIP_CONDITIONS,
     annular_fin,

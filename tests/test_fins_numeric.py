@@ -1,4 +1,4 @@
-"""Tests of finkit.fins.numeric.solve_fin against closed forms, first integrals and balances."""
+"""Tests of finkit.physics.fins.numeric.solve_fin: closed forms, first integrals and balances."""
 
 from __future__ import annotations
 
@@ -7,10 +7,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-import finkit.fins.numeric as numeric
+import finkit.physics.fins.numeric as numeric
 from finkit.constants import STEFAN_BOLTZMANN
 from finkit.errors import InputError, SolverError
-from finkit.fins import (
+from finkit.physics.fins import (
     annular_fin_efficiency,
     pin_fin_concave_parabolic,
     pin_fin_conical,
@@ -36,7 +36,7 @@ T_AIR = 298.15
     tip=st.sampled_from(["convective", "adiabatic", "prescribed"]),
 )
 def test_constant_properties_equal_closed_form(length, d, k, h, theta_b, tip):
-    # Incropera Table 3.4 cases A, B, C (finkit.fins.analytic) against the BVP solution.
+    # Incropera Table 3.4 cases A, B, C (finkit.physics.fins.analytic) against the BVP solution.
     s = pin_fin_section(d)
     p, a = float(s.perimeter), float(s.cross_section_area)
     theta_l = 0.3 * theta_b

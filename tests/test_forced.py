@@ -1,4 +1,5 @@
-"""Tests of finkit.correlations.forced: plate-fin channels and pin-fin arrays in forced flow.
+"""Tests of finkit.physics.correlations.forced: plate-fin channels and pin-fin arrays in forced
+flow.
 
 Sources: published tables and worked examples (named beside each check), the reference
 libraries ``ht`` and ``fluids`` (test-only), exact limits of the composite models, and physics
@@ -12,8 +13,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from finkit.correlations import forced
 from finkit.errors import GeometryError, InputError
+from finkit.physics.correlations import forced
 
 # Dry air near 300 K (only used where a test needs realistic magnitudes, not as check values).
 RHO, MU, K_AIR, PR = 1.16, 1.85e-5, 0.0263, 0.707

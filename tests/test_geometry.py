@@ -1,4 +1,4 @@
-"""Tests of finkit.geometry: derived areas and counts, validation messages, broadcasting.
+"""Tests of finkit.physics.geometry: derived areas and counts, validation messages, broadcasting.
 
 The expected values are hand calculations from the definitions stated in docs/methods.md sections e
 and f (fin spacing with flush edge fins, open-area ratio, hydraulic diameters, tube-bank
@@ -9,7 +9,7 @@ import numpy as np
 import pytest
 
 from finkit.errors import GeometryError, InputError
-from finkit.geometry import PinFinSink, PlateFinSink
+from finkit.physics.geometry import PinFinSink, PlateFinSink
 
 # A plate-fin sink with round numbers: W = 100, L = 80, t_b = 5, N = 11, t = 1, H = 30 (mm)
 PLATE = dict(

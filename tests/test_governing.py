@@ -22,7 +22,7 @@ import yaml
 from finkit.case import CaseError, load_case
 from finkit.errors import InputError
 from finkit.model import RESULTS_SCHEMA_VERSION, run_case, sink_inputs, solve_condition
-from finkit.review import apply_calibration
+from finkit.model.review import apply_calibration
 
 DEMO = Path(__file__).resolve().parents[1] / "demo_cases"
 PLATE_FAN = DEMO / "nb200-plate-fan.yaml"

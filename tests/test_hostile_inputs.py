@@ -105,7 +105,7 @@ def test_variant_tables_are_read_as_standard_csv(tmp_path):
 
 
 def test_summary_csv_neutralises_formula_text():
-    from finkit.batch import _spreadsheet_text
+    from finkit.batch.overview import _spreadsheet_text
 
     for text in ("=HYPERLINK(1)", "+1", "-cmd", "@SUM(A1)"):
         assert _spreadsheet_text(text).startswith("'")

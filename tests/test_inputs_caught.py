@@ -106,14 +106,14 @@ def test_absurd_magnitudes_typed_with_a_unit_are_flagged(path, value, message):
     for key in path[:-1]:
         node = node[key]
     node[path[-1]] = value
-    from finkit.review import sanity_flags
+    from finkit.model.review import sanity_flags
 
     case = load_case(data)
     assert any(f.startswith(message) for f in sanity_flags(case))
 
 
 def test_an_approach_velocity_of_300_m_s_is_flagged():
-    from finkit.review import sanity_flags
+    from finkit.model.review import sanity_flags
 
     data = lean("nb300-pin-ducted")
     data["air"]["flow"] = {"approach_velocity": "300 m/s"}

@@ -14,7 +14,7 @@ from scipy.interpolate import CubicSpline, PchipInterpolator
 from scipy.optimize import least_squares
 
 from finkit.interpolation import MonotoneCubic, uniform_spline
-from finkit.review import _one_parameter_fit
+from finkit.model.review.calibration import _one_parameter_fit
 
 
 def _tables(seed: int):

@@ -17,8 +17,8 @@ import pytest
 import yaml
 
 from finkit.case import load_case
-from finkit.json_schema import case_schema, results_schema
 from finkit.model import run_case
+from finkit.model.json_schema import case_schema, results_schema
 
 ROOT = Path(__file__).resolve().parent.parent
 CASES = sorted((ROOT / "demo_cases").glob("*.yaml")) + sorted(

@@ -1,11 +1,11 @@
-"""Tests of finkit.properties.materials: sources, sanity, published values, overrides."""
+"""Tests of finkit.physics.properties.materials: sources, sanity, published values, overrides."""
 
 import dataclasses
 
 import pytest
 
 from finkit.errors import InputError
-from finkit.properties.materials import (
+from finkit.physics.properties.materials import (
     FINISHES,
     Material,
     get_material,

@@ -1,12 +1,13 @@
-"""Tests of finkit.correlations.natural against published values, reference libraries and limits."""
+"""Tests of finkit.physics.correlations.natural: published values, reference libraries, limits."""
 
 import numpy as np
 import pytest
 from scipy.integrate import solve_bvp
 from scipy.optimize import minimize_scalar
 
-from finkit.correlations import natural
-from finkit.correlations.natural import (
+from finkit.errors import GeometryError, InputError, NotSupportedError
+from finkit.physics.correlations import natural
+from finkit.physics.correlations.natural import (
     BAR_COHEN_ROHSENOW_CONSTANTS,
     nusselt_vertical_channel_bar_cohen_rohsenow,
     nusselt_vertical_channel_elenbaas,
@@ -15,7 +16,6 @@ from finkit.correlations.natural import (
     plate_fin_array_natural,
     rayleigh_number,
 )
-from finkit.errors import GeometryError, InputError, NotSupportedError
 
 ht = pytest.importorskip("ht")
 CP = pytest.importorskip("CoolProp.CoolProp")

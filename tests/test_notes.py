@@ -1,4 +1,4 @@
-"""Tests of the calculation-note machinery (finkit.notes, finkit.present).
+"""Tests of the calculation-note machinery (finkit.notes, finkit.report.present).
 
 These are tests of software behaviour, not of physics: the expected values are the documented
 contract of finkit.notes (files written, escaping, self-containment, failure handling), checked
@@ -21,8 +21,9 @@ from xml.etree import ElementTree
 import nbformat
 import pytest
 
-from finkit import notes, present
+from finkit import notes
 from finkit.errors import FinkitError, InputError, NotSupportedError
+from finkit.report import present
 
 HERE = Path(__file__).resolve().parent
 NOTEBOOKS = HERE / "notebooks"

@@ -18,10 +18,13 @@ import numpy as np
 import pytest
 
 import finkit.model
-from finkit import compare, handover, present, report
+import finkit.model.design
+import finkit.model.run
+from finkit import report
 from finkit.case import load_case
 from finkit.errors import PropertyRangeError
-from finkit.model import governing_results, run_case
+from finkit.model import governing_results, handover, run_case
+from finkit.report import compare, present
 
 DEMO = Path(__file__).resolve().parent.parent / "demo_cases"
 
@@ -65,7 +68,7 @@ def test_report_run_takes_the_handed_result_without_solving(tmp_path, plate, mon
     def no_solve(*args, **kwargs):
         raise AssertionError("the kernel solved the case again")
 
-    monkeypatch.setattr(finkit.model, "run_case", no_solve)
+    monkeypatch.setattr(finkit.model.run, "run_case", no_solve)
     handed = report.run(dict(case.entered), solved=str(path))
     assert handed.results == result.results
 
@@ -115,14 +118,14 @@ def test_note_sweep_splits_a_failing_range_in_halves(monkeypatch):
             raise PropertyRangeError("air hotter than the table")
         return {"values": values, "allowable_power": 2.0 * values}
 
-    monkeypatch.setattr(finkit.model, "sweep", fake_sweep)
+    monkeypatch.setattr(finkit.model.design, "sweep", fake_sweep)
     values = np.arange(64.0)
     out = finkit.model.note_sweep(None, "airflow", values)
     assert np.all(np.isnan(out["allowable_power"][:10]))
     np.testing.assert_array_equal(out["allowable_power"][10:], 2.0 * values[10:])
     assert len(calls) < 30  # point by point would take 65 calls
     monkeypatch.setattr(
-        finkit.model,
+        finkit.model.design,
         "sweep",
         lambda *a: (_ for _ in ()).throw(PropertyRangeError("every point fails")),
     )
@@ -131,7 +134,7 @@ def test_note_sweep_splits_a_failing_range_in_halves(monkeypatch):
 
 
 def test_unique_rows_groups_as_numpy_unique():
-    from finkit.spreading import _unique_rows
+    from finkit.physics.spreading import _unique_rows
 
     rng = np.random.default_rng(7)
     for count in (1, 7, 5000):

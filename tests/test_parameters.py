@@ -15,8 +15,8 @@ import nbformat
 import pytest
 import yaml
 
+from finkit.case.parameters import CASE_KEYS, OVERRIDES, case_from_parameters
 from finkit.errors import InputError
-from finkit.parameters import CASE_KEYS, OVERRIDES, case_from_parameters
 
 ROOT = Path(__file__).resolve().parent.parent
 PIN = ROOT / "demo_cases" / "nb300-pin-ducted.yaml"

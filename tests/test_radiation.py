@@ -1,4 +1,4 @@
-"""Tests of finkit.radiation: published values, enclosure identities, a radiosity solve."""
+"""Tests of finkit.physics.radiation: published values, enclosure identities, a radiosity solve."""
 
 import numpy as np
 import pytest
@@ -6,9 +6,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from finkit.constants import STEFAN_BOLTZMANN as SIGMA
-from finkit.correlations.natural import plate_fin_array_natural
 from finkit.errors import GeometryError, InputError
-from finkit.radiation import (
+from finkit.physics.correlations.natural import plate_fin_array_natural
+from finkit.physics.radiation import (
     channel_effective_emissivity,
     envelope_radiation,
     pin_fin_radiation,

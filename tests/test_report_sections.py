@@ -1,14 +1,14 @@
 """Tests of the uncertainty and model-form sections of the heat-sink note (finkit.report, section
 "uncertainty and model-form sections") and of their support in finkit.model
 (``model_form_check``), with the two presentation fixes that came with them
-(``finkit.present.bullets``; ``finkit.review.TouchResult.statement`` in °C).
+(``finkit.report.present.bullets``; ``finkit.model.review.TouchResult.statement`` in °C).
 
 Mostly presentation: each section appears only when it applies; every figure labels its axes
 with units; the histogram marks the limit, the limit less the margin and the nominal; the
 tornado is sorted and centred on the nominal. Where a shown number is physics, it is checked
 against an independent computation: the model-form table against
-``finkit.conduction.compare_with_chain`` called directly, the grid convergence index against
-``finkit.conduction.refine_study``, the plotted histogram against ``numpy.histogram`` of the
+``finkit.physics.conduction.compare_with_chain`` called directly, the grid convergence index against
+``finkit.physics.conduction.refine_study``, the plotted histogram against ``numpy.histogram`` of the
 samples, the exceedance bound against the closed form of Clopper & Pearson for no exceedance.
 
 The cases are small invented fixtures written out here (not the demo cases).
@@ -25,8 +25,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from finkit import present, report
+from finkit import report
 from finkit.constants import ZERO_CELSIUS
+from finkit.report import present, studies
 
 ROOT_DEMO = Path(__file__).resolve().parent.parent / "demo_cases"
 
@@ -344,7 +345,7 @@ def _number(text: str) -> float:
 
 
 def test_model_form_table_matches_compare_with_chain_called_directly(plain, check):
-    from finkit import conduction
+    from finkit.physics import conduction
 
     args = check.arguments
     # The arguments are the case's own: geometry and footprint as entered, the solved h.
@@ -390,7 +391,7 @@ def test_model_form_table_matches_compare_with_chain_called_directly(plain, chec
 def test_model_form_grid_convergence_index_is_roache_of_the_refinement_study(check):
     # Identity: GCI = 1.25 |R_ext - R_fine| / R_fine equals refine_study's
     # 1.25 |(R_3 - R_2)/R_3| / (r^p - 1) (Roache 1994) on the same meshes.
-    from finkit import conduction
+    from finkit.physics import conduction
 
     study = conduction.refine_study(
         **check.arguments, mesh_cell_size=check.mesh_cell_size, levels=check.levels
@@ -410,7 +411,7 @@ def test_model_form_check_keeps_to_its_cell_budget(plain, check):
     assert small.levels == (2,) and not small.is_extrapolated
     assert math.isnan(small.grid_convergence_index)
     assert small.cell_counts == (check.cell_counts[0] * 8,)
-    statement = report._mesh_statement(small)
+    statement = studies._mesh_statement(small)
     assert "not estimated" in statement and "refine_study" in statement
 
 

@@ -1,5 +1,5 @@
-"""Tests of finkit.review (scenarios, touch, calibration, correlation spread, input flags) and
-finkit.review_schema (the case-file blocks).
+"""Tests of finkit.model.review (scenarios, touch, calibration, correlation spread, input flags) and
+finkit.case.review_blocks (the case-file blocks).
 
 Most checks are identities: a scenario re-solved inside a case must equal the same conditions
 written as a case of their own; a deposit layer must equal thicker fins for the flow; a
@@ -20,13 +20,11 @@ import yaml
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from finkit.airflow import power_law_pressure_drop
 from finkit.case import load_case
-from finkit.correlations import natural
+from finkit.case.review_blocks import ReviewBlockError, load_review_blocks
 from finkit.errors import InputError
 from finkit.model import allowable, run_case, sink_inputs, solve
-from finkit.properties.air import air_properties
-from finkit.review import (
+from finkit.model.review import (
     JUNCTION_TO_CASE_FLAG,
     FilterLoss,
     Measurement,
@@ -41,8 +39,10 @@ from finkit.review import (
     scenarios_from_blocks,
     touch_temperature_check,
 )
-from finkit.review_schema import ReviewBlockError, load_review_blocks
-from finkit.sink import GivenVolumeFlow, ModelOptions, sink_pressure_drop
+from finkit.physics.airflow import power_law_pressure_drop
+from finkit.physics.correlations import natural
+from finkit.physics.properties.air import air_properties
+from finkit.physics.sink import GivenVolumeFlow, ModelOptions, sink_pressure_drop
 
 DEMO = Path(__file__).resolve().parents[1] / "demo_cases"
 C0 = 273.15
@@ -559,7 +559,7 @@ def test_natural_channel_elenbaas_option(natural_case):
 @pytest.mark.identity
 def test_natural_spread_vanishes_in_the_fully_developed_limit():
     # Both channel correlations tend to Nu_S = El/24 as El -> 0 (buoyancy-driven plane
-    # Poiseuille flow, derived in finkit.correlations.natural), so very tight fins show
+    # Poiseuille flow, derived in finkit.physics.correlations.natural), so very tight fins show
     # almost no model-form spread, while the demo's open fins show some.
     data = raw("nb100-natural")
     data["sink"]["fins"]["count"] = 30  # 1.4 mm gaps

@@ -8,12 +8,12 @@ any correct model must have.
 import numpy as np
 import pytest
 
-from finkit.airflow import FanCurve
 from finkit.constants import CUBIC_FOOT_PER_MINUTE as CFM
 from finkit.constants import ZERO_CELSIUS
-from finkit.geometry import PinFinSink, PlateFinSink
-from finkit.properties.air import air_properties
-from finkit.sink import (
+from finkit.physics.airflow import FanCurve
+from finkit.physics.geometry import PinFinSink, PlateFinSink
+from finkit.physics.properties.air import air_properties
+from finkit.physics.sink import (
     Air,
     Bypass,
     FanDriven,
@@ -25,7 +25,7 @@ from finkit.sink import (
     solve_allowable_power,
     solve_temperatures,
 )
-from finkit.spreading import spreading_resistance_rectangular_series
+from finkit.physics.spreading import spreading_resistance_rectangular_series
 
 PLATE = PlateFinSink(
     base_width=0.08,
@@ -181,7 +181,7 @@ def test_chain_is_the_sum_of_its_resistances():
 
 @pytest.mark.identity
 def test_film_property_iteration_has_converged(monkeypatch):
-    import finkit.sink as sink
+    import finkit.physics.sink as sink
 
     quick = solve_temperatures(PLATE, ALUMINIUM, SOURCE, AIR, FanDriven(FAN))
     monkeypatch.setattr(sink, "FILM_TOLERANCE", 1e-10)
@@ -324,7 +324,7 @@ def test_two_callables_for_an_extra_pressure_drop_give_two_airflows():
     # Regression: the airflow was once remembered in a module-level cache keyed partly on the
     # id() of callables; a new callable could reuse an old id and get another design's flow.
     # Identity (no published value): a larger series loss must give less flow.
-    from finkit.sink import ModelOptions
+    from finkit.physics.sink import ModelOptions
 
     fan = FanCurve(
         volume_flow=[0, 0.0024, 0.0047, 0.0071, 0.0094], static_pressure=[75, 65, 47, 25, 0]
@@ -363,7 +363,7 @@ def test_centre_of_the_base_is_hotter_than_the_footprint_mean_and_is_the_base_li
 def test_the_air_heating_limit_says_when_it_acts():
     # Identity: the sink resistance can never be below 1/(m_dot c_p) (all the air leaving at
     # the base temperature); when the correlation would go below, the limit is used and said.
-    from finkit.sink import ModelOptions
+    from finkit.physics.sink import ModelOptions
 
     sink = PlateFinSink(0.08, 0.06, 0.005, 14, 0.0012, 0.03)
     args = (sink, SinkMaterial(200.0, 0.85), HeatSource(2.0, 0.025, 0.025, 0.35, 0.03))

@@ -3,7 +3,8 @@
 The reference (``tests/reference_sink.py``) was written from the methods reference (now
 docs/methods.md, sections a, c, e, f, h, i, j, k) and the cited papers without reading
 finkit's sink or correlation code. Both sides use
-the same air-property table (``finkit.properties.air.air_properties``), so agreement is expected
+the same air-property table (``finkit.physics.properties.air.air_properties``), so agreement is
+expected
 to round-off and solver tolerance wherever the two implement the same equations.
 
 Modelling choices, and how they are handled here:
@@ -35,11 +36,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from finkit.airflow import FanCurve
 from finkit.constants import CUBIC_FOOT_PER_MINUTE as CFM
 from finkit.constants import ZERO_CELSIUS
-from finkit.geometry import PlateFinSink
-from finkit.sink import (
+from finkit.physics.airflow import FanCurve
+from finkit.physics.geometry import PlateFinSink
+from finkit.physics.sink import (
     Air,
     FanDriven,
     GivenVolumeFlow,

@@ -1,4 +1,4 @@
-"""Tests of finkit.spreading: half-space limits, closed form vs exact series, convergence."""
+"""Tests of finkit.physics.spreading: half-space limits, closed form vs series, convergence."""
 
 import numpy as np
 import pytest
@@ -6,7 +6,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from finkit.errors import GeometryError, InputError
-from finkit.spreading import (
+from finkit.physics.spreading import (
     contact_resistance,
     interface_resistance,
     spreading_resistance_rectangular_series,
@@ -209,7 +209,8 @@ def test_interface_exactly_one_way(kwargs):
 
 def _converged_series(sl, sw, pl, pw, t, k, h, terms=1500):
     """Mean and centre of the series summed to 1500 x 1500 terms, written out here from
-    docs/methods.md i2 (Yovanovich, Muzychka & Culham 1999) independently of finkit.spreading."""
+    docs/methods.md i2 (Yovanovich, Muzychka & Culham 1999) independently of
+    finkit.physics.spreading."""
     a, b, c, d = sl / 2, sw / 2, pl / 2, pw / 2
 
     def phi(z):
@@ -272,9 +273,9 @@ def test_default_series_length_is_within_2_percent_of_converged(sl, sw, pl, pw, 
 def test_solver_spreading_is_the_series_not_the_disc_closed_form():
     # Cross-check: issue 12's review found the equal-area-disc closed form (Song, Lee & Au)
     # 18 % low for a 5 x 5 mm source on a 200 x 100 mm plate; the solver's spreading is the
-    # series (finkit.sink.base_spreading), here checked against the converged series.
-    from finkit.geometry import PlateFinSink
-    from finkit.sink import HeatSource, SinkMaterial, base_spreading
+    # series (finkit.physics.sink.base_spreading), here checked against the converged series.
+    from finkit.physics.geometry import PlateFinSink
+    from finkit.physics.sink import HeatSource, SinkMaterial, base_spreading
 
     plate = PlateFinSink(
         base_width=0.1,

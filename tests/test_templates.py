@@ -134,7 +134,7 @@ def test_thin_code_check_catches_what_a_template_must_not_do(source):
 
 def test_thin_code_check_accepts_template_style_cells():
     assert not _thin_code_problems(
-        "import finkit.report as report\nfrom finkit import present\n\n"
+        "import finkit.report as report\nfrom finkit.report import present\n\n"
         "result = report.run(case)\nreport.title_block(result, note_time)"
     )
     assert not _thin_code_problems("case = {'a': [-1.5, '2 mm'], 'b': None}\nnote_time = ''")
@@ -155,7 +155,7 @@ def test_template_code_cells_are_thin(kind):
 def test_markdown_cells_hold_prose_only(kind):
     for cell in _cells(kind):
         if cell.cell_type == "markdown":
-            assert "$" not in cell.source, "TeX in Markdown: use finkit.present.equation"
+            assert "$" not in cell.source, "TeX in Markdown: use finkit.report.present.equation"
             assert not re.search(r"<\s*[a-zA-Z]", cell.source), "raw HTML in Markdown"
             assert not cell.get("attachments"), "attachments in a template"
 
@@ -172,7 +172,7 @@ def _assigned(source: str) -> set[str]:
 
 @pytest.mark.parametrize("kind", sorted(notes.TEMPLATES_BY_KIND))
 def test_parameters_cell_declares_the_case_its_keys_and_the_overrides(kind):
-    from finkit.parameters import CASE_KEYS, OVERRIDES
+    from finkit.case.parameters import CASE_KEYS, OVERRIDES
 
     cells = _cells(kind)
     tagged = [c for c in cells if _is_parameters(c)]

@@ -1,4 +1,4 @@
-"""Trade studies, Pareto fronts and optimisers (finkit.trade) and the ``trade_study:`` schema.
+"""Trade studies, Pareto fronts and optimisers (finkit.model.trade) and the ``trade_study:`` schema.
 
 Checks: the Pareto filter against a brute-force dominance test; manufacturing flags on
 hand-made designs; the optimisers against a brute-force grid (the optimum must be at least as
@@ -13,20 +13,17 @@ import numpy as np
 import pytest
 from CoolProp.CoolProp import PropsSI
 
-from finkit.airflow import FanCurve
-from finkit.constants import ZERO_CELSIUS
-from finkit.errors import InputError, NotSupportedError
-from finkit.explore_schema import (
+from finkit.case.explore_blocks import (
     ExploreError,
     load_trade_study,
     to_bounds,
     to_envelope,
     to_trade_axes,
 )
-from finkit.geometry import PinFinSink, PlateFinSink
+from finkit.constants import ZERO_CELSIUS
+from finkit.errors import InputError, NotSupportedError
 from finkit.model import SinkInputs, solve
-from finkit.sink import Air, FanDriven, GivenVolumeFlow, HeatSource, NaturalConvection, SinkMaterial
-from finkit.trade import (
+from finkit.model.trade import (
     Envelope,
     ManufacturingBounds,
     minimise_junction_temperature,
@@ -37,6 +34,16 @@ from finkit.trade import (
     plate_fin_designs,
     plate_fin_grid,
     plate_fin_sample,
+)
+from finkit.physics.airflow import FanCurve
+from finkit.physics.geometry import PinFinSink, PlateFinSink
+from finkit.physics.sink import (
+    Air,
+    FanDriven,
+    GivenVolumeFlow,
+    HeatSource,
+    NaturalConvection,
+    SinkMaterial,
 )
 
 # Invented test cases (not demo data, no product's values).

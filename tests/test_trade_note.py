@@ -1,13 +1,13 @@
-"""The trade-study note: finkit.report_trade, templates/trade_study_note.ipynb, the demo case.
+"""The trade-study note: finkit.report.trade, templates/trade_study_note.ipynb, the demo case.
 
-* Agreement with finkit.trade (identity): the study, front and chosen design the note shows
-  are those of finkit.trade called here directly with the demo block's values written out by
+* Agreement with finkit.model.trade (identity): the study, front and chosen design the note shows
+  are those of finkit.model.trade called here directly with the demo block's values written out by
   hand (not through the case schema).
 * Consistency of the choice: the chosen design is at least as good as every design of the grid
   for the block's objective (lightest meeting the limit, coolest, lightest on the front).
 * Template: thin (same AST rule as tests/test_templates.py), the demo case in its parameters
   cell; rendering (slow) through ``finkit note --template trade-study``: safe self-contained
-  HTML with the front plots and the chosen design, results.json agreeing with finkit.trade;
+  HTML with the front plots and the chosen design, results.json agreeing with finkit.model.trade;
   headless Chromium shows it without console messages.
 
 Software behaviour only: the physics of every number is tested in test_sink.py, test_trade.py
@@ -26,11 +26,10 @@ import numpy as np
 import pytest
 import yaml
 
-from finkit import report_trade
 from finkit.case import load_case
 from finkit.errors import InputError
 from finkit.model import sink_inputs
-from finkit.trade import (
+from finkit.model.trade import (
     Envelope,
     ManufacturingBounds,
     minimise_mass_meeting_limit,
@@ -38,6 +37,7 @@ from finkit.trade import (
     pin_fin_grid,
     plate_fin_grid,
 )
+from finkit.report import trade as report_trade
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_cases" / "nb200-trade-study.yaml"
@@ -66,7 +66,7 @@ def inputs():
 
 
 # ------------------------------------------------------------------------------------------
-# Agreement with finkit.trade
+# Agreement with finkit.model.trade
 
 
 @pytest.mark.identity

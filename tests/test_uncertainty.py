@@ -1,4 +1,4 @@
-"""Monte Carlo and tornado sensitivity (finkit.uncertainty) and the ``tolerances:`` schema.
+"""Monte Carlo and tornado sensitivity (finkit.model.uncertainty) and the ``tolerances:`` schema.
 
 The checks are identities of probability: zero tolerances give the deterministic result
 exactly; where the junction temperature is exactly linear in an input (the junction-to-case
@@ -13,13 +13,25 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from finkit.airflow import FanCurve
+from finkit.case.explore_blocks import (
+    ExploreError,
+    load_monte_carlo,
+    load_tolerances,
+    to_tolerances,
+)
 from finkit.constants import ZERO_CELSIUS
 from finkit.errors import InputError
-from finkit.explore_schema import ExploreError, load_monte_carlo, load_tolerances, to_tolerances
-from finkit.geometry import PinFinSink, PlateFinSink
 from finkit.model import SinkInputs, solve
-from finkit.sink import (
+from finkit.model.uncertainty import (
+    TOLERANCE_INPUTS,
+    Tolerance,
+    monte_carlo,
+    nominal_value,
+    sensitivity,
+)
+from finkit.physics.airflow import FanCurve
+from finkit.physics.geometry import PinFinSink, PlateFinSink
+from finkit.physics.sink import (
     Air,
     Bypass,
     FanDriven,
@@ -27,13 +39,6 @@ from finkit.sink import (
     HeatSource,
     NaturalConvection,
     SinkMaterial,
-)
-from finkit.uncertainty import (
-    TOLERANCE_INPUTS,
-    Tolerance,
-    monte_carlo,
-    nominal_value,
-    sensitivity,
 )
 
 # Invented test cases (not demo data, no product's values).

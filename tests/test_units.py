@@ -1,4 +1,4 @@
-"""Tests of finkit.units: case-file strings -> SI floats, messages, display.
+"""Tests of finkit.case.units: case-file strings -> SI floats, messages, display.
 
 Every expected value is a conversion factor fixed by definition, cited beside the check:
 - 1 in = 25.4 mm and 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959);
@@ -17,8 +17,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from finkit.case.units import KINDS, format_quantity, from_si, to_si, to_si_array, ureg
 from finkit.errors import InputError
-from finkit.units import KINDS, format_quantity, from_si, to_si, to_si_array, ureg
 
 INCH = 0.0254  # Source: international yard and pound agreement (1959), exact
 FOOT = 0.3048  # Source: international yard and pound agreement (1959), exact
@@ -85,7 +85,8 @@ def test_unit_strings_convert_to_si(text, kind, expected):
      "dimensionless"), (0.005, "volume_flow"), ("0.0015", "length"), ("1e-3", "length")],
 )  # fmt: skip
 def test_bare_numbers_mean_si(value, kind):
-    # Common practice, no source: a bare number in a case file is SI (documented in finkit.units)
+    # Common practice, no source: a bare number in a case file is SI (documented in
+    # finkit.case.units)
     assert to_si(value, kind, "field") == pytest.approx(float(value), rel=1e-15)
 
 
@@ -140,7 +141,7 @@ def test_unreadable_values_give_one_line(value, kind, fragments):
 
 
 def test_celsius_is_not_a_temperature_difference():
-    # Decision (documented in finkit.units): "10 degC" is a temperature (283.15 K), so a
+    # Decision (documented in finkit.case.units): "10 degC" is a temperature (283.15 K), so a
     # margin written that way is refused with the two unambiguous ways to write it.
     with pytest.raises(InputError) as info:
         to_si("10 degC", "temperature_difference", "limit.required_margin")

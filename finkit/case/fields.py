@@ -1,0 +1,155 @@
+"""Field types shared by the case-file schema and its optional blocks (pydantic v2).
+
+Every value written with a unit is converted to SI once, here at the boundary
+(:func:`finkit.case.units.to_si`); a bad value becomes a one-line message that the case loader
+prefixes with the field's path. Used by :mod:`finkit.case.schema`, :mod:`finkit.case.review_blocks`
+and
+:mod:`finkit.case.explore_blocks`.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Annotated
+
+from pydantic import BaseModel, BeforeValidator, ConfigDict, Field
+from pydantic_core import PydanticCustomError
+
+from finkit.case.units import format_quantity, to_si
+from finkit.errors import InputError
+
+#: Unit in which a bound of each kind is printed in an error message.
+SHOW_UNIT = {
+    "length": "mm",
+    "temperature": "degC",
+    "temperature_difference": "K",
+    "area": "mm^2",
+    "thermal_resistance": "K/W",
+    "area_resistance": "K*m^2/W",
+    "power": "W",
+    "velocity": "m/s",
+    "volume_flow": "m^3/s",
+    "pressure": "Pa",
+    "density": "kg/m^3",
+    "thermal_conductivity": "W/m/K",
+    "heat_transfer_coefficient": "W/m^2/K",
+    "dimensionless": "",
+}
+
+
+class StrictModel(BaseModel):
+    """A block of a case file: unknown keys are errors; validated blocks are immutable."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+
+def fail(message: str) -> PydanticCustomError:
+    """A field's problem, reported as its one-line message."""
+    return PydanticCustomError("finkit", "{message}", {"message": message})
+
+
+def fail_many(problems: list[tuple[str, str]]) -> PydanticCustomError:
+    """Several problems found by one model check: (field relative to the model, message)."""
+    return PydanticCustomError("finkit_many", "{problems}", {"problems": json.dumps(problems)})
+
+
+def fail_at(field: str, message: str) -> PydanticCustomError:
+    """One problem of a model check, placed on one of the model's fields."""
+    return fail_many([(field, message)])
+
+
+def shown(value) -> str:
+    """A value as the user wrote it, for a message."""
+    return f"'{value}'" if isinstance(value, str) else repr(value)
+
+
+def format_bound(value_si: float, kind: str, unit: str | None = None) -> str:
+    """A quantity in the unit a message shows for its kind (``unit`` overrides)."""
+    return format_quantity(value_si, kind, SHOW_UNIT[kind] if unit is None else unit)
+
+
+#: Unit symbols named in the hint for an implausible bare number, by kind.
+_SI_WORDS = {"length": "metres", "volume_flow": "m^3/s", "velocity": "m/s"}
+
+
+def quantity(
+    kind: str,
+    *,
+    gt=None,
+    ge=None,
+    le=None,
+    show: str | None = None,
+    bare_max: float | None = None,
+    hint: str = "",
+):
+    """A float field given with a unit in the case file and stored in SI.
+
+    ``gt``/``ge``/``le`` are bounds in SI; ``show`` is the unit used to print a bound. A bare
+    number (no unit) above ``bare_max`` [SI] is refused with a hint that it was read in SI and
+    probably meant ``hint`` (``fin height: 30 m ... did you mean '30 mm'?``).
+    """
+
+    def limit(bound: float) -> str:
+        return "0" if bound == 0 else format_bound(bound, kind, show)
+
+    def convert(value):
+        try:
+            x = to_si(value, kind, "")
+        except InputError as exc:
+            raise fail(str(exc)) from None
+        if not math.isfinite(x):
+            raise fail(f"must be a finite number (got {shown(value)})")
+        is_bare = isinstance(value, int | float) and not isinstance(value, bool)
+        if bare_max is not None and is_bare and x > bare_max:
+            raise fail(
+                f"{value:g} {_SI_WORDS.get(kind, 'SI')} is implausible here: bare numbers are SI "
+                f"{_SI_WORDS.get(kind, 'units')}; did you mean '{value:g} {hint}'?"
+            )
+        if gt is not None and not x > gt:
+            raise fail(f"must be greater than {limit(gt)} (got {shown(value)})")
+        if ge is not None and not x >= ge:
+            raise fail(f"must be at least {limit(ge)} (got {shown(value)})")
+        if le is not None and not x <= le:
+            raise fail(f"must be at most {limit(le)} (got {shown(value)})")
+        return x
+
+    unit = show or SHOW_UNIT.get(kind, "")
+    return Annotated[
+        float,
+        BeforeValidator(convert, json_schema_input_type=float | str),
+        Field(
+            description=f"{kind.replace('_', ' ')}: a number with a unit, e.g. '1 {unit}' "
+            "(a bare number is SI)"
+        ),
+    ]
+
+
+def whole(minimum: int, maximum: int | None = None):
+    """A whole-number field of at least ``minimum`` and at most ``maximum`` (``3.0`` is 3)."""
+
+    def convert(value):
+        ok = isinstance(value, int) and not isinstance(value, bool)
+        if isinstance(value, float) and value.is_integer():
+            value, ok = int(value), True
+        if not ok or value < minimum:
+            raise fail(f"must be a whole number of at least {minimum} (got {shown(value)})")
+        if maximum is not None and value > maximum:
+            raise fail(f"must be at most {maximum} (got {value})")
+        return value
+
+    return Annotated[int, BeforeValidator(convert, json_schema_input_type=int | float)]
+
+
+def _text(value):
+    if isinstance(value, bool) or value is None:
+        raise fail(f"expected text (got {shown(value)})")
+    if isinstance(value, (int, float)):
+        value = str(value)
+    if not isinstance(value, str) or not value.strip():
+        raise fail(f"expected non-empty text (got {shown(value)})")
+    return value.strip()
+
+
+#: Non-empty text (numbers are taken as their text), stripped.
+Text = Annotated[str, BeforeValidator(_text, json_schema_input_type=str | int | float)]

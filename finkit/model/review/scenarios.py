@@ -1,0 +1,796 @@
+"""Operating conditions (scenarios): each solved at once, the governing one named."""
+
+from __future__ import annotations
+
+import functools
+from dataclasses import dataclass, field, replace
+from typing import Any
+
+import numpy as np
+
+from finkit.constants import ZERO_CELSIUS
+from finkit.errors import FinkitError, InputError
+from finkit.model.design import SinkInputs, allowable
+from finkit.physics.airflow.fans import FanCurve
+from finkit.physics.airflow.operating_point import power_law_pressure_drop
+from finkit.physics.geometry import PlateFinSink
+from finkit.physics.properties.atmosphere import ALTITUDE_RANGE, standard_atmosphere
+from finkit.physics.sink import (
+    FanDriven,
+    NaturalConvection,
+    SinkSolution,
+)
+
+__all__ = [
+    "EMPIRICAL_STATEMENT",
+    "FilterLoss",
+    "Scenario",
+    "ScenarioRow",
+    "ScenarioTable",
+    "apply_scenario",
+    "combine_scenarios",
+    "milder_than_nominal",
+    "run_scenarios",
+    "scenario_changes",
+    "scenarios_from_blocks",
+]
+
+EMPIRICAL_STATEMENT = (
+    "The multiplier is empirical: it absorbs every difference between this model and the test "
+    "(correlation scatter, contact and interface resistance, flow bypass, thermocouple placement "
+    "and error) and holds only near the tested geometry, flow and power."
+)
+
+
+# --------------------------------------------------------------------------------------
+# Scenarios
+# --------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class FilterLoss:
+    """A filter or grille in series with the sink, ``dp = dp_ref (Q / Q_ref) ** exponent``.
+
+    Attributes
+    ----------
+    volume_flow : float
+        Flow of the rated point [m³ s⁻¹].
+    pressure_drop : float
+        Pressure drop at the rated point [Pa].
+    exponent : float
+        Exponent of the power law [-].
+    """
+
+    volume_flow: float
+    pressure_drop: float
+    exponent: float = 2.0
+
+    def pressure_drop_at(self, volume_flow):
+        """Pressure drop at a volume flow [Pa] (:func:`.airflow.power_law_pressure_drop`)."""
+        return power_law_pressure_drop(
+            volume_flow, self.volume_flow, self.pressure_drop, self.exponent
+        )
+
+
+@dataclass(frozen=True)
+class Scenario:
+    """A named set of operating conditions that replace those of the nominal case (SI).
+
+    ``None`` keeps the nominal value. The factors and resistances compose with the case's own
+    model options (factors multiply, resistances and deposit thicknesses add).
+
+    Attributes
+    ----------
+    name : str
+        Short id [-].
+    description : str
+        One line for the note [-].
+    inlet_temperature : float or None
+        Local inlet air temperature [K].
+    surroundings_temperature : float or None
+        Radiation surroundings [K]; None moves them with the inlet air by the same amount.
+    altitude : float or None
+        Altitude; pressure from the standard atmosphere (ISO 2533) [m].
+    power : float or None
+        Source power [W].
+    inlet_temperature_rise : float or None
+        Inlet air above the nominal inlet (relative) [K].
+    altitude_increase : float or None
+        Altitude above the nominal altitude (relative) [m].
+    power_factor : float or None
+        Multiplier on the nominal power (relative) [-].
+    combines : tuple of str
+        Names of the scenarios merged into this one (:func:`combine_scenarios`) [-].
+    requirement_id : str or None
+        Identifier of the requirement the scenario checks [-].
+    fan_speed_ratio : float or None
+        Fan speed over rated speed, fan laws ``Q ∝ N``, ``dp ∝ N²`` [-].
+    fan_pressure_factor : float or None
+        Multiplier on fan pressure [-].
+    failed_fans : int
+        Stopped fans out of the case's fan count [-].
+    stopped_fan_resistance : float or None
+        ``R`` of the leak ``dp = R Q²`` through each stopped fan [Pa s² m⁻⁶]; None = sealed.
+    filter : FilterLoss or None
+        Series filter or grille (fan-driven cases).
+    pressure_drop_factor : float or None
+        Multiplier on the sink's own pressure drop [-].
+    heat_transfer_factor : float or None
+        Multiplier on the air-side h [-].
+    fouling_resistance : float or None
+        Added air-side fouling resistance [m² K W⁻¹].
+    deposit_thickness : float or None
+        Dust layer on every wetted face, narrowing the passages [m].
+    deposit_conductivity : float or None
+        Conductivity of the layer; adds ``deposit_thickness / deposit_conductivity`` to the
+        fouling resistance [W m⁻¹ K⁻¹].
+    """
+
+    name: str
+    description: str = ""
+    inlet_temperature: float | None = None
+    surroundings_temperature: float | None = None
+    altitude: float | None = None
+    power: float | None = None
+    fan_speed_ratio: float | None = None
+    fan_pressure_factor: float | None = None
+    failed_fans: int = 0
+    stopped_fan_resistance: float | None = None
+    filter: FilterLoss | None = None
+    pressure_drop_factor: float | None = None
+    heat_transfer_factor: float | None = None
+    fouling_resistance: float | None = None
+    deposit_thickness: float | None = None
+    deposit_conductivity: float | None = None
+    inlet_temperature_rise: float | None = None
+    altitude_increase: float | None = None
+    power_factor: float | None = None
+    combines: tuple[str, ...] = ()
+    requirement_id: str | None = None
+
+
+#: How :func:`combine_scenarios` merges each field of the parts.
+_ADDED = ("inlet_temperature_rise", "altitude_increase", "fouling_resistance", "deposit_thickness")
+_MULTIPLIED = (
+    "power_factor",
+    "fan_speed_ratio",
+    "fan_pressure_factor",
+    "pressure_drop_factor",
+    "heat_transfer_factor",
+)
+_ABSOLUTE = (
+    "inlet_temperature",
+    "surroundings_temperature",
+    "altitude",
+    "power",
+    "stopped_fan_resistance",
+    "filter",
+    "deposit_conductivity",
+)
+
+
+def combine_scenarios(name: str, description: str, parts) -> Scenario:
+    """One scenario that applies all of ``parts`` together (e.g. hot day + one fan failed).
+
+    Relative rises, fouling resistances and deposit thicknesses add; factors multiply; failed
+    fans add up; an absolute value (inlet temperature, altitude, power, filter, ...) may be set
+    by one part only, or by several with the same value.
+
+    Raises
+    ------
+    InputError
+        Two parts set the same absolute value differently; one line naming both.
+    """
+    merged: dict[str, Any] = {}
+    owner: dict[str, str] = {}
+    for part in parts:
+        for n in _ADDED:
+            v = getattr(part, n)
+            if v is not None:
+                merged[n] = merged.get(n, 0.0) + v
+        for n in _MULTIPLIED:
+            v = getattr(part, n)
+            if v is not None:
+                merged[n] = merged.get(n, 1.0) * v
+        for n in _ABSOLUTE:
+            v = getattr(part, n)
+            if v is None:
+                continue
+            if n in merged and merged[n] != v:
+                raise InputError(
+                    f"scenarios[{name}].combines: '{owner[n]}' and '{part.name}' both set {n} "
+                    "to different values; combine scenarios that change different conditions"
+                )
+            merged[n], owner[n] = v, part.name
+        merged["failed_fans"] = merged.get("failed_fans", 0) + part.failed_fans
+    names = tuple(p.name for p in parts)
+    text = description or "together: " + " + ".join(names)
+    return Scenario(name=name, description=text, combines=names, **merged)
+
+
+def scenarios_from_blocks(blocks) -> tuple[Scenario, ...]:
+    """:class:`Scenario` objects from validated ``scenarios:`` blocks (``ScenarioBlock``).
+
+    A block with ``combines`` becomes one merged scenario (:func:`combine_scenarios`) of the
+    scenarios it names and its own changes.
+    """
+    own = {}
+    for b in blocks:
+        leak = b.stopped_fan_leak
+        own[b.name] = Scenario(
+            name=b.name,
+            description=b.description or "",
+            requirement_id=getattr(b, "requirement_id", None),
+            inlet_temperature=b.inlet_temperature,
+            inlet_temperature_rise=b.inlet_temperature_rise,
+            surroundings_temperature=b.surroundings_temperature,
+            altitude=b.altitude,
+            altitude_increase=b.altitude_increase,
+            power=b.power,
+            power_factor=b.power_factor,
+            fan_speed_ratio=b.fan_speed_ratio,
+            fan_pressure_factor=b.fan_pressure_factor,
+            failed_fans=b.failed_fans or 0,
+            stopped_fan_resistance=(
+                None if leak is None else leak.pressure_drop / leak.volume_flow**2
+            ),
+            filter=(
+                None
+                if b.filter is None
+                else FilterLoss(b.filter.volume_flow, b.filter.pressure_drop, b.filter.exponent)
+            ),
+            pressure_drop_factor=b.pressure_drop_factor,
+            heat_transfer_factor=b.heat_transfer_factor,
+            fouling_resistance=b.fouling_resistance,
+            deposit_thickness=b.deposit_thickness,
+            deposit_conductivity=b.deposit_conductivity,
+        )
+    out = []
+    for b in blocks:
+        combines = tuple(getattr(b, "combines", ()) or ())
+        if not combines:
+            out.append(own[b.name])
+            continue
+        parts = [own[n] for n in combines]
+        if any(
+            getattr(own[b.name], n) not in (None, 0, ())
+            for n in (*_ADDED, *_MULTIPLIED, *_ABSOLUTE, "failed_fans")
+        ):
+            parts.append(own[b.name])
+        combined = combine_scenarios(b.name, b.description or "", parts)
+        out.append(replace(combined, requirement_id=getattr(b, "requirement_id", None)))
+    return tuple(out)
+
+
+def milder_than_nominal(inputs: SinkInputs, scenario: Scenario) -> list[str]:
+    """Warnings for a scenario that is no harsher than the nominal case on some condition.
+
+    A scenario written with absolute values does not follow a variant: a variant installed at
+    3000 m makes a "2500 m" scenario milder than its own nominal. Each condition the scenario
+    sets to a cooler inlet, a lower altitude, less power, more fan or less loss than nominal is
+    named (equal values too: that scenario checks nothing beyond the nominal).
+    """
+    out = []
+    where = f"scenario {scenario.name}"
+    t_nom = float(np.max(inputs.air.inlet_temperature))
+    if scenario.inlet_temperature is not None and scenario.inlet_temperature <= t_nom + 1e-9:
+        out.append(
+            f"{where}: inlet air {scenario.inlet_temperature - ZERO_CELSIUS:.1f} degC is not "
+            f"above this variant's nominal {t_nom - ZERO_CELSIUS:.1f} degC, so it checks nothing "
+            "harsher; use inlet_temperature_rise to follow the variant"
+        )
+    if scenario.altitude is not None and scenario.altitude <= inputs.altitude + 1e-9:
+        out.append(
+            f"{where}: altitude {scenario.altitude:.0f} m is not above this variant's nominal "
+            f"{inputs.altitude:.0f} m, so it checks nothing harsher; use altitude_increase to "
+            "follow the variant"
+        )
+    p_nom = float(np.max(inputs.source.power))
+    if scenario.power is not None and scenario.power <= p_nom * (1 + 1e-12):
+        out.append(
+            f"{where}: power {scenario.power:.3g} W is not above this variant's nominal "
+            f"{p_nom:.3g} W; use power_factor to follow the variant"
+        )
+    milder_factors = {
+        "power_factor": (scenario.power_factor, "below", lambda v: v < 1),
+        "fan_speed_ratio": (scenario.fan_speed_ratio, "above", lambda v: v > 1),
+        "fan_pressure_factor": (scenario.fan_pressure_factor, "above", lambda v: v > 1),
+        "heat_transfer_factor": (scenario.heat_transfer_factor, "above", lambda v: v > 1),
+        "pressure_drop_factor": (scenario.pressure_drop_factor, "below", lambda v: v < 1),
+    }
+    for name, (value, side, is_milder) in milder_factors.items():
+        if value is not None and is_milder(value):
+            out.append(f"{where}: {name} {value:.3g} is {side} 1, milder than the nominal case")
+    return out
+
+
+def _series_losses(volume_flow, losses):
+    return sum(loss(volume_flow) for loss in losses)
+
+
+def _shifted_air(air, inlet_temperature, surroundings_temperature=None):
+    """Air with a new inlet temperature; surroundings given, or moved by the same amount."""
+    if surroundings_temperature is None and air.surroundings_temperature is not None:
+        shift = np.asarray(inlet_temperature, float) - np.asarray(air.inlet_temperature, float)
+        surroundings_temperature = np.asarray(air.surroundings_temperature, float) + shift
+    return replace(
+        air,
+        inlet_temperature=inlet_temperature,
+        surroundings_temperature=surroundings_temperature,
+    )
+
+
+def _check_deposit(geometry, thickness, where):
+    """Refuse a deposit layer that closes the passages."""
+    if isinstance(geometry, PlateFinSink):
+        gap = float(np.min(geometry.fin_spacing))
+        if 2.0 * thickness >= gap:
+            raise InputError(
+                f"{where}.deposit_thickness: {thickness * 1e3:.3g} mm on each face closes the "
+                f"{gap * 1e3:.3g} mm fin gap; must be below half the gap"
+            )
+    else:
+        clear = float(
+            np.min(
+                np.minimum(geometry.transverse_pitch, geometry.longitudinal_pitch)
+                - geometry.pin_diameter
+            )
+        )
+        if 2.0 * thickness >= clear:
+            raise InputError(
+                f"{where}.deposit_thickness: {thickness * 1e3:.3g} mm on each pin closes the "
+                f"{clear * 1e3:.3g} mm clearance between pins; must be below half of it"
+            )
+
+
+def apply_scenario(inputs: SinkInputs, scenario: Scenario, fan_block=None) -> SinkInputs:
+    """The physics inputs of one scenario: the nominal inputs with its conditions replaced.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The nominal case (:func:`finkit.model.sink_inputs`).
+    scenario : Scenario
+        Conditions to change.
+    fan_block : object, optional
+        The case's ``air.flow.fan`` block (volume_flow, pressure, count, arrangement,
+        rating_density, pressure_factor); required for ``failed_fans``, since a failed fan is
+        taken out of the combination of single-fan curves.
+
+    Returns
+    -------
+    SinkInputs
+        New inputs; the nominal ones are not altered.
+
+    Raises
+    ------
+    InputError
+        A fan change in a case without a fan, a filter or pressure-drop change in natural
+        convection, too many failed fans, or a deposit that closes the passages; one line
+        naming ``scenarios[<name>].<field>``.
+
+    Notes
+    -----
+    Failed fans: the curve of ``count`` fans of which ``failed_fans`` are stopped
+    (:meth:`finkit.physics.airflow.FanCurve.with_failed`, with the leak through each stopped fan
+    when
+    its resistance is given), then the case's own pressure factor, then the speed ratio. The
+    operating point is re-solved against the sink, bypass and series losses at the scenario's
+    air density. A filter adds ``dp(Q)`` in series with the sink and its bypass. A deposit layer
+    narrows the passages (``ModelOptions.deposit_thickness``) and, with its conductivity, adds
+    its conduction resistance to the fouling resistance.
+    """
+    where = f"scenarios[{scenario.name}]"
+    s, i = scenario, inputs
+    is_fan = isinstance(i.flow, FanDriven)
+    is_natural = isinstance(i.flow, NaturalConvection)
+    air, source, flow, options = i.air, i.source, i.flow, i.options
+
+    altitude = i.altitude
+    if (
+        s.inlet_temperature is not None
+        or s.inlet_temperature_rise is not None
+        or s.surroundings_temperature is not None
+    ):
+        inlet = air.inlet_temperature if s.inlet_temperature is None else s.inlet_temperature
+        if s.inlet_temperature_rise is not None:
+            inlet = np.asarray(inlet, float) + s.inlet_temperature_rise
+        air = _shifted_air(air, inlet, s.surroundings_temperature)
+    if s.altitude is not None or s.altitude_increase is not None:
+        altitude = i.altitude if s.altitude is None else s.altitude
+        altitude = altitude + (s.altitude_increase or 0.0)
+        if altitude > ALTITUDE_RANGE[1]:
+            raise InputError(
+                f"{where}.altitude_increase: takes the site to {altitude:.0f} m; the standard "
+                f"atmosphere used here ends at {ALTITUDE_RANGE[1]:.0f} m"
+            )
+        air = replace(air, pressure=float(standard_atmosphere(altitude).pressure))
+    if s.power is not None:
+        source = replace(source, power=s.power)
+    if s.power_factor is not None:
+        source = replace(source, power=np.asarray(source.power, float) * s.power_factor)
+
+    fan_changes = [
+        n for n in ("fan_speed_ratio", "fan_pressure_factor", "filter") if getattr(s, n) is not None
+    ] + (["failed_fans"] if s.failed_fans else [])
+    if fan_changes and not is_fan:
+        raise InputError(
+            f"{where}.{fan_changes[0]}: applies to a fan-driven case (air.flow.fan); this case's "
+            f"flow is {type(i.flow).__name__}"
+        )
+    if s.pressure_drop_factor is not None and is_natural:
+        raise InputError(f"{where}.pressure_drop_factor: has no effect in natural convection")
+    if s.failed_fans:
+        if fan_block is None:
+            raise InputError(
+                f"{where}.failed_fans: needs the case's air.flow.fan block (fan_block) to take "
+                "fans out of the combination"
+            )
+        single = FanCurve(
+            volume_flow=np.asarray(fan_block.volume_flow, float),
+            static_pressure=np.asarray(fan_block.pressure, float),
+            rating_density=fan_block.rating_density,
+        )
+        if s.failed_fans >= fan_block.count:
+            raise InputError(
+                f"{where}.failed_fans: got {s.failed_fans}; must be below air.flow.fan.count "
+                f"= {fan_block.count} (at least one fan must run)"
+            )
+        curve = single.with_failed(
+            fan_block.count, s.failed_fans, fan_block.arrangement, s.stopped_fan_resistance
+        )
+        if fan_block.pressure_factor != 1.0:
+            curve = curve.scaled(pressure_factor=fan_block.pressure_factor)
+        flow = FanDriven(curve)
+    if s.fan_speed_ratio is not None:
+        flow = FanDriven(flow.fan.at_speed(s.fan_speed_ratio))
+
+    changes: dict[str, Any] = {}
+    if s.fan_pressure_factor is not None:
+        changes["fan_pressure_factor"] = options.fan_pressure_factor * s.fan_pressure_factor
+    if s.pressure_drop_factor is not None:
+        changes["pressure_drop_factor"] = options.pressure_drop_factor * s.pressure_drop_factor
+    if s.heat_transfer_factor is not None:
+        changes["heat_transfer_factor"] = options.heat_transfer_factor * s.heat_transfer_factor
+    fouling = 0.0 if s.fouling_resistance is None else s.fouling_resistance
+    if s.deposit_thickness is not None:
+        deposit = np.asarray(options.deposit_thickness, float) + s.deposit_thickness
+        _check_deposit(i.geometry, float(np.max(deposit)), where)
+        changes["deposit_thickness"] = deposit
+        if s.deposit_conductivity is not None:
+            fouling += s.deposit_thickness / s.deposit_conductivity
+    if s.fouling_resistance is not None or s.deposit_conductivity is not None:
+        changes["fouling_resistance"] = options.fouling_resistance + fouling
+    if s.filter is not None:
+        losses = [s.filter.pressure_drop_at]
+        if options.extra_pressure_drop is not None:
+            losses.insert(0, options.extra_pressure_drop)
+        changes["extra_pressure_drop"] = functools.partial(_series_losses, losses=tuple(losses))
+    if changes:
+        options = replace(options, **changes)
+    return replace(i, air=air, source=source, flow=flow, options=options, altitude=altitude)
+
+
+@dataclass(frozen=True)
+class ScenarioRow:
+    """One solved scenario (all temperatures absolute [K]; NaN where not applicable).
+
+    Attributes
+    ----------
+    name, description : str
+        Scenario id and text [-].
+    inlet_temperature : float
+        Inlet air [K].
+    pressure : float
+        Air pressure [Pa].
+    power : float
+        Source power [W].
+    limit_node : str
+        Node the limit applies to [-].
+    node_temperature, junction_temperature, source_base_temperature, fin_tip_temperature : float
+        Temperatures at the stated power [K].
+    outlet_air_temperature : float
+        Mixed-out air leaving the fins [K].
+    limit_temperature : float
+        The case's limit [K].
+    margin : float
+        ``limit_temperature - node_temperature`` [K].
+    required_margin : float
+        The case's required margin [K].
+    status : str
+        ``pass`` when ``margin >= required_margin``, else ``fail`` [-].
+    allowable_power : float
+        Power with the node at the limit less the required margin [W] (0 if none).
+    volume_flow, sink_volume_flow : float
+        Total and through-fin flow [m³ s⁻¹].
+    bypass_fraction : float
+        Share of the flow round the fins [-].
+    pressure_drop : float
+        Static pressure drop across the sink [Pa].
+    heat_transfer_coefficient : float
+        Air-side h after factors and fouling [W m⁻² K⁻¹].
+    sink_resistance : float
+        Mean base to inlet air [K W⁻¹].
+    is_governing : bool
+        The least-margin scenario [-].
+    warnings : tuple of str
+        Validity messages of this solve.
+    inputs : SinkInputs
+        The inputs solved (for reproduction).
+    results : dict
+        Every result of this condition in the units of :data:`finkit.model.RESULT_UNITS`
+        (°C for temperatures), from :func:`finkit.model.solve_condition`.
+    solution, allowable : SinkSolution
+        States at the stated power and at the allowable power (None if there is none).
+    power_at_limit : float
+        Power with the node exactly at the limit [W].
+    altitude : float
+        Site altitude of this condition [m].
+    changes : tuple of str
+        What this condition changes from nominal, one readable item each [-].
+    combines : tuple of str
+        Scenarios merged into this one [-].
+    requirement_id : str or None
+        Identifier of the requirement this condition checks [-].
+    """
+
+    name: str
+    description: str
+    inlet_temperature: float
+    pressure: float
+    power: float
+    limit_node: str
+    node_temperature: float
+    junction_temperature: float
+    source_base_temperature: float
+    fin_tip_temperature: float
+    outlet_air_temperature: float
+    limit_temperature: float
+    margin: float
+    required_margin: float
+    status: str
+    allowable_power: float
+    volume_flow: float
+    sink_volume_flow: float
+    bypass_fraction: float
+    pressure_drop: float
+    heat_transfer_coefficient: float
+    sink_resistance: float
+    is_governing: bool
+    warnings: tuple[str, ...]
+    inputs: SinkInputs = field(repr=False)
+    results: dict[str, float | None] = field(default_factory=dict, repr=False)
+    solution: SinkSolution | None = field(default=None, repr=False)
+    allowable: SinkSolution | None = field(default=None, repr=False)
+    power_at_limit: float = float("nan")
+    altitude: float = 0.0
+    changes: tuple[str, ...] = ()
+    combines: tuple[str, ...] = ()
+    requirement_id: str | None = None
+
+    def to_json_dict(self) -> dict:
+        """One entry of ``results.json``'s ``conditions`` list (°C, K, W, SI flows)."""
+        from finkit.model.results import RESULT_UNITS
+
+        return {
+            "name": self.name,
+            "description": self.description,
+            "status": self.status,
+            "is_governing": self.is_governing,
+            "requirement_id": self.requirement_id,
+            "changes": list(self.changes),
+            "combines": list(self.combines),
+            "altitude": {"value": self.altitude, "unit": "m"},
+            "results": {
+                k: {"value": None if v is None else float(v), "unit": RESULT_UNITS.get(k, "")}
+                for k, v in self.results.items()
+            },
+            "warnings": list(self.warnings),
+        }
+
+
+@dataclass(frozen=True)
+class ScenarioTable:
+    """Every scenario of a case, nominal first, with the governing one marked.
+
+    Attributes
+    ----------
+    rows : tuple of ScenarioRow
+        Nominal first, then the scenarios in the order given.
+    governing : str
+        Name of the least-margin row (the first one on a tie).
+    """
+
+    rows: tuple[ScenarioRow, ...]
+    governing: str
+    notices: tuple[str, ...] = ()
+
+    @property
+    def governing_row(self) -> ScenarioRow:
+        """The least-margin row."""
+        return next(r for r in self.rows if r.is_governing)
+
+    @property
+    def least_allowable_power_row(self) -> ScenarioRow:
+        """The row with the least allowable power (the first one on a tie)."""
+        return self.rows[int(np.argmin([r.allowable_power for r in self.rows]))]
+
+    @property
+    def reason(self) -> str:
+        """Why the governing condition governs, in one sentence."""
+        gov = self.governing_row
+        if len(self.rows) == 1:
+            return "the only operating condition of the case (no scenarios given)"
+        others = sorted(r.margin for r in self.rows if r is not gov)
+        return (
+            f"least margin of the {len(self.rows)} operating conditions "
+            f"({gov.margin:.3g} K; next {others[0]:.3g} K)"
+        )
+
+    def governing_summary(self) -> dict:
+        """The ``governing`` block of ``results.json``."""
+        gov, least = self.governing_row, self.least_allowable_power_row
+        return {
+            "condition": gov.name,
+            "description": gov.description,
+            "requirement_id": gov.requirement_id,
+            "reason": self.reason,
+            "status": gov.status,
+            "temperature_margin": {"value": gov.margin, "unit": "K"},
+            "required_margin": {"value": gov.required_margin, "unit": "K"},
+            "allowable_power": {"value": gov.allowable_power, "unit": "W"},
+            "power": {"value": gov.power, "unit": "W"},
+            "least_allowable_power_condition": least.name,
+            "least_allowable_power": {"value": least.allowable_power, "unit": "W"},
+            "condition_count": len(self.rows),
+            "failing_conditions": [r.name for r in self.rows if r.status == "fail"],
+        }
+
+    @property
+    def status(self) -> str:
+        """Headline status: that of the governing row (``pass`` or ``fail``)."""
+        return self.governing_row.status
+
+    def row(self, name: str) -> ScenarioRow:
+        """The row of a scenario by name."""
+        for r in self.rows:
+            if r.name == name:
+                return r
+        raise InputError(f"scenarios: no scenario named {name!r}")
+
+
+def _allowable_power(inputs: SinkInputs) -> float:
+    usable = inputs.limit_temperature - inputs.required_margin
+    if usable <= float(np.max(inputs.air.inlet_temperature)) + 1e-6:
+        return 0.0
+    return float(allowable(inputs).power)
+
+
+def scenario_changes(scenario: Scenario) -> tuple[str, ...]:
+    """What a scenario changes from nominal, one readable item each (SI shown in °C, m, W)."""
+    s, out = scenario, []
+    if s.inlet_temperature is not None:
+        out.append(f"inlet air {s.inlet_temperature - ZERO_CELSIUS:.1f} degC")
+    if s.inlet_temperature_rise is not None:
+        out.append(f"inlet air +{s.inlet_temperature_rise:.3g} K")
+    if s.surroundings_temperature is not None:
+        out.append(f"surroundings {s.surroundings_temperature - ZERO_CELSIUS:.1f} degC")
+    if s.altitude is not None:
+        out.append(f"altitude {s.altitude:.0f} m")
+    if s.altitude_increase is not None:
+        out.append(f"altitude +{s.altitude_increase:.0f} m")
+    if s.power is not None:
+        out.append(f"power {s.power:.3g} W")
+    if s.power_factor is not None:
+        out.append(f"power x{s.power_factor:.3g}")
+    if s.failed_fans:
+        out.append(f"{s.failed_fans} fan{'s' if s.failed_fans > 1 else ''} stopped")
+    for name, label in (
+        ("fan_speed_ratio", "fan speed"),
+        ("fan_pressure_factor", "fan pressure"),
+        ("pressure_drop_factor", "sink pressure drop"),
+        ("heat_transfer_factor", "h"),
+    ):
+        value = getattr(s, name)
+        if value is not None:
+            out.append(f"{label} x{value:.3g}")
+    if s.filter is not None:
+        out.append(
+            f"filter {s.filter.pressure_drop:.3g} Pa at {s.filter.volume_flow:.3g} m\u00b3/s"
+        )
+    if s.deposit_thickness is not None:
+        out.append(f"dust layer {s.deposit_thickness * 1e3:.3g} mm")
+    if s.fouling_resistance is not None:
+        out.append(f"fouling {s.fouling_resistance:.3g} K\u00b7m\u00b2/W")
+    return tuple(out)
+
+
+def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None) -> ScenarioRow:
+    from finkit.model.design import solve_condition
+
+    state = solve_condition(inputs)
+    sol, r = state.solution, state.results
+    node_t = r["limit_node_temperature"] + ZERO_CELSIUS
+    with np.errstate(invalid="ignore", divide="ignore"):
+        bypass_fraction = float(sol.bypass_volume_flow / sol.volume_flow)
+    return ScenarioRow(
+        name=name,
+        description=description,
+        inlet_temperature=float(sol.inlet_air_temperature),
+        pressure=float(np.max(inputs.air.pressure)),
+        power=float(np.max(sol.power)),
+        limit_node=inputs.limit_node,
+        node_temperature=node_t,
+        junction_temperature=float(sol.junction_temperature),
+        source_base_temperature=float(sol.source_base_temperature),
+        fin_tip_temperature=float(sol.fin_tip_temperature),
+        outlet_air_temperature=float(sol.outlet_air_temperature),
+        limit_temperature=float(inputs.limit_temperature),
+        margin=r["temperature_margin"],
+        required_margin=float(inputs.required_margin),
+        status=state.status,
+        allowable_power=r["allowable_power"],
+        volume_flow=float(sol.volume_flow),
+        sink_volume_flow=float(sol.sink_volume_flow),
+        bypass_fraction=bypass_fraction,
+        pressure_drop=float(sol.pressure_drop),
+        heat_transfer_coefficient=float(sol.heat_transfer_coefficient),
+        sink_resistance=float(sol.sink_resistance),
+        is_governing=False,
+        warnings=state.warnings,
+        inputs=inputs,
+        results=r,
+        solution=sol,
+        allowable=state.allowable,
+        power_at_limit=r["power_at_limit"],
+        altitude=float(np.max(inputs.altitude)),
+        changes=() if scenario is None else scenario_changes(scenario),
+        combines=() if scenario is None else scenario.combines,
+        requirement_id=None if scenario is None else scenario.requirement_id,
+    )
+
+
+def run_scenarios(
+    inputs: SinkInputs, scenarios, fan_block=None, *, nominal_description="the case as stated"
+) -> ScenarioTable:
+    """Solve the nominal case and every scenario; mark the governing (least-margin) one.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The nominal case.
+    scenarios : sequence of Scenario
+        Scenarios to run (names unique, not ``nominal``).
+    fan_block : object, optional
+        The case's ``air.flow.fan`` block, for failed-fan scenarios.
+    nominal_description : str, optional
+        Text of the nominal row [-].
+
+    Returns
+    -------
+    ScenarioTable
+        One row per scenario, nominal first; each row re-solved in full (airflow, bypass, air
+        heating, temperatures and allowable power). The margin is ``limit - node temperature``;
+        the governing row is the one with the least margin, and the headline status is its
+        status.
+    """
+    names = [s.name for s in scenarios]
+    repeated = sorted({n for n in names if names.count(n) > 1 or n == "nominal"})
+    if repeated:
+        raise InputError(
+            f"scenarios: names must be unique and not 'nominal' (got {', '.join(repeated)})"
+        )
+    rows = [_row("nominal", nominal_description, inputs)]
+    notices = []
+    for s in scenarios:
+        notices += milder_than_nominal(inputs, s)
+        try:
+            rows.append(_row(s.name, s.description, apply_scenario(inputs, s, fan_block), s))
+        except FinkitError as exc:
+            if hasattr(exc, "errors"):
+                raise  # an error made of several lines keeps its own form
+            # Same error, told which scenario it belongs to.
+            raise type(exc)(f"scenarios[{s.name}]: {exc}") from None
+    governing = int(np.argmin([r.margin for r in rows]))
+    rows[governing] = replace(rows[governing], is_governing=True)
+    return ScenarioTable(rows=tuple(rows), governing=rows[governing].name, notices=tuple(notices))
