@@ -25,11 +25,10 @@ from dataclasses import replace
 
 import numpy as np
 
+from finkit.case.bounds import Envelope, ManufacturingBounds
 from finkit.constants import ZERO_CELSIUS
 from finkit.model import SinkInputs
 from finkit.model.trade import (
-    Envelope,
-    ManufacturingBounds,
     minimise_junction_temperature,
     minimise_mass_meeting_limit,
     plate_fin_grid,

@@ -893,7 +893,7 @@ class Explorer:
     def _curves(self, result) -> dict[str, Any]:
         """Every curve of the plots, from finkit.model (vectorised calls)."""
         from finkit.model.design import fan_pressure, note_sweep, system_curve
-        from finkit.physics.sink import FanDriven, NaturalConvection
+        from finkit.physics.sink.inputs import FanDriven, NaturalConvection
 
         inputs = result.inputs
         t_in = float(np.asarray(inputs.air.inlet_temperature))
@@ -1117,7 +1117,7 @@ class Explorer:
 
     @staticmethod
     def _is_forced(result) -> bool:
-        from finkit.physics.sink import NaturalConvection
+        from finkit.physics.sink.inputs import NaturalConvection
 
         return not isinstance(result.inputs.flow, NaturalConvection)
 

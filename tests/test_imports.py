@@ -234,7 +234,7 @@ def test_the_layer_contract_fails_on_a_physics_module_that_imports_the_report(tm
     root = Path(__file__).resolve().parents[1]
     shutil.copytree(root / "finkit", tmp_path / "finkit", ignore=shutil.ignore_patterns("*.pyc"))
     shutil.copy(root / "pyproject.toml", tmp_path / "pyproject.toml")
-    sink = tmp_path / "finkit" / "physics" / "sink.py"
+    sink = tmp_path / "finkit" / "physics" / "sink" / "solve.py"
     sink.write_text(
         sink.read_text(encoding="utf-8")
         + "\n\ndef _leak():\n    from finkit.report import present\n",

@@ -13,6 +13,7 @@ import numpy as np
 import pytest
 from CoolProp.CoolProp import PropsSI
 
+from finkit.case.bounds import Envelope, ManufacturingBounds
 from finkit.case.explore_blocks import (
     ExploreError,
     load_trade_study,
@@ -24,8 +25,6 @@ from finkit.constants import ZERO_CELSIUS
 from finkit.errors import InputError, NotSupportedError
 from finkit.model import SinkInputs, solve
 from finkit.model.trade import (
-    Envelope,
-    ManufacturingBounds,
     minimise_junction_temperature,
     minimise_mass_meeting_limit,
     optimum_fin_count_natural,

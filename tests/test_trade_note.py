@@ -27,11 +27,10 @@ import pytest
 import yaml
 
 from finkit.case import load_case
+from finkit.case.bounds import Envelope, ManufacturingBounds
 from finkit.errors import InputError
 from finkit.model import sink_inputs
 from finkit.model.trade import (
-    Envelope,
-    ManufacturingBounds,
     minimise_mass_meeting_limit,
     pareto_front,
     pin_fin_grid,

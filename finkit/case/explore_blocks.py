@@ -310,7 +310,7 @@ class RangeBlock(_Model):
 
 
 class BoundsBlock(_Model):
-    """Manufacturing bounds; defaults are those of :class:`finkit.model.trade.ManufacturingBounds`
+    """Manufacturing bounds; defaults are those of :class:`finkit.case.bounds.ManufacturingBounds`
     (common practice, no source)."""
 
     min_fin_gap: _si("length", ge=0.0) = ManufacturingBounds.min_fin_gap
@@ -385,13 +385,13 @@ class TradeStudyBlock(_Model):
 
 
 def to_bounds(block: TradeStudyBlock | BoundsBlock) -> ManufacturingBounds:
-    """The :class:`~finkit.model.trade.ManufacturingBounds` of a block (SI)."""
+    """The :class:`~finkit.case.bounds.ManufacturingBounds` of a block (SI)."""
     b = block.bounds if isinstance(block, TradeStudyBlock) else block
     return ManufacturingBounds(**b.model_dump())
 
 
 def to_envelope(block: TradeStudyBlock, inputs) -> Envelope:
-    """The :class:`~finkit.model.trade.Envelope`: the case's base and the block's ``max_height``."""
+    """The :class:`~finkit.case.bounds.Envelope`: the case's base and the block's ``max_height``."""
     return Envelope.of(inputs, block.max_height)
 
 

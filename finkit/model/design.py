@@ -23,7 +23,7 @@ from finkit.physics.airflow.fans import FanCurve
 from finkit.physics.geometry import PinFinSink, PlateFinSink
 from finkit.physics.properties.atmosphere import standard_atmosphere
 from finkit.physics.properties.materials import get_material, material_emissivity
-from finkit.physics.sink import (
+from finkit.physics.sink.inputs import (
     DEFAULT_OPTIONS,
     Air,
     Bypass,
@@ -34,10 +34,9 @@ from finkit.physics.sink import (
     ModelOptions,
     NaturalConvection,
     SinkMaterial,
-    SinkSolution,
-    solve_allowable_power,
-    solve_temperatures,
 )
+from finkit.physics.sink.results import SinkSolution
+from finkit.physics.sink.solve import solve_allowable_power, solve_temperatures
 
 
 @dataclass(frozen=True)
@@ -207,7 +206,7 @@ def allowable(
 def airflow_of(inputs: SinkInputs):
     """The airflow of a case (forced convection; None in still air), solved once so that the
     two design questions asked of the same inputs share it (it does not depend on power)."""
-    from finkit.physics.sink import solve_case_airflow
+    from finkit.physics.sink.results import solve_case_airflow
 
     if isinstance(inputs.flow, NaturalConvection):
         return None
@@ -639,7 +638,7 @@ def system_curve(inputs: SinkInputs, volume_flow) -> dict[str, np.ndarray]:
         ``volume_flow`` [m³ s⁻¹], ``pressure_drop`` [Pa], ``sink_volume_flow`` (through the
         fins) [m³ s⁻¹].
     """
-    from finkit.physics.sink import solve_airflow
+    from finkit.physics.sink.airflow import solve_airflow
 
     if isinstance(inputs.flow, NaturalConvection):
         raise InputError("air.flow: natural convection has no system curve")

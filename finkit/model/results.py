@@ -17,9 +17,7 @@ import numpy as np
 import finkit
 from finkit.constants import ZERO_CELSIUS
 from finkit.model.design import SinkInputs
-from finkit.physics.sink import (
-    SinkSolution,
-)
+from finkit.physics.sink.results import SinkSolution
 
 #: Names and units of the results every results.json carries (null where not applicable).
 RESULT_UNITS = {

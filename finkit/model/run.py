@@ -15,9 +15,7 @@ from finkit.constants import ZERO_CELSIUS
 from finkit.errors import PropertyRangeError
 from finkit.model.design import SinkInputs, sink_inputs, solve_condition, sweep_notes
 from finkit.model.results import RESULT_UNITS, CaseResult, ReviewResult, UncertaintyResult
-from finkit.physics.sink import (
-    NaturalConvection,
-)
+from finkit.physics.sink.inputs import NaturalConvection
 
 #: Warning of a heat-sink case that checks only the condition as stated.
 NO_SCENARIO_WARNING = (

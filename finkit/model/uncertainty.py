@@ -55,13 +55,8 @@ import numpy as np
 
 from finkit.errors import InputError
 from finkit.model.design import SinkInputs, solve
-from finkit.physics.sink import (
-    FanDriven,
-    GivenVelocity,
-    GivenVolumeFlow,
-    NaturalConvection,
-    SinkSolution,
-)
+from finkit.physics.sink.inputs import FanDriven, GivenVelocity, GivenVolumeFlow, NaturalConvection
+from finkit.physics.sink.results import SinkSolution
 from finkit.tolerance import (
     DISTRIBUTIONS,
     TOLERANCE_INPUTS,

@@ -180,13 +180,13 @@ def _is_heat_sink(result) -> bool:
 
 
 def _is_natural(result) -> bool:
-    from finkit.physics.sink import NaturalConvection
+    from finkit.physics.sink.inputs import NaturalConvection
 
     return isinstance(result.inputs.flow, NaturalConvection)
 
 
 def _is_fan(result) -> bool:
-    from finkit.physics.sink import FanDriven
+    from finkit.physics.sink.inputs import FanDriven
 
     return isinstance(result.inputs.flow, FanDriven)
 

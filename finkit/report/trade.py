@@ -190,7 +190,7 @@ class TradeNote:
 
     @property
     def is_natural(self) -> bool:
-        from finkit.physics.sink import NaturalConvection
+        from finkit.physics.sink.inputs import NaturalConvection
 
         return isinstance(self.result.inputs.flow, NaturalConvection)
 
@@ -199,7 +199,7 @@ def _relaxed(bounds, envelope):
     """Bounds widened by 1e-9 (relative): a design on a bound stays feasible after round-off."""
     from dataclasses import replace
 
-    from finkit.model.trade import Envelope
+    from finkit.case.bounds import Envelope
 
     b = replace(
         bounds,
@@ -246,7 +246,7 @@ def _one(inputs, sink_type, design, bounds, envelope):
 def _evaluated(label, how, inputs, sink_type, design, bounds, envelope, **extra) -> ChosenDesign:
     """A design's results (solved without bounds) and the bounds it breaks."""
     from finkit.model.design import solve
-    from finkit.model.trade import Envelope, ManufacturingBounds
+    from finkit.case.bounds import Envelope, ManufacturingBounds
 
     free = ManufacturingBounds(0.0, 0.0, np.inf, 0.0, 0.0, np.inf)
     open_envelope = Envelope(envelope.base_width, envelope.base_length, envelope.base_thickness)
@@ -385,7 +385,7 @@ def run(case: Any) -> TradeNote:
     envelope = to_envelope(block, inputs)
     study = _study(inputs, block, bounds, envelope)
     objectives = tuple(block.pareto)
-    from finkit.physics.sink import NaturalConvection
+    from finkit.physics.sink.inputs import NaturalConvection
 
     if isinstance(inputs.flow, NaturalConvection):
         objectives = tuple(o for o in objectives if o != "pressure_drop")

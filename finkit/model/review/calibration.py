@@ -14,13 +14,8 @@ from finkit.model.review.scenarios import (
     _shifted_air,
 )
 from finkit.physics.properties.atmosphere import standard_atmosphere
-from finkit.physics.sink import (
-    FanDriven,
-    GivenVelocity,
-    GivenVolumeFlow,
-    NaturalConvection,
-    SinkSolution,
-)
+from finkit.physics.sink.inputs import FanDriven, GivenVelocity, GivenVolumeFlow, NaturalConvection
+from finkit.physics.sink.results import SinkSolution
 
 __all__ = [
     "CALIBRATION_TARGETS",

@@ -232,7 +232,7 @@ def _implausible_flags(case) -> list[str]:
 def _manufacturing_flags(case) -> list[str]:
     """Fin gaps thinner than the fins, or outside the trade study's manufacturing bounds.
 
-    The bounds are :class:`finkit.model.trade.ManufacturingBounds` (the case's ``trade_study``
+    The bounds are :class:`finkit.case.bounds.ManufacturingBounds` (the case's ``trade_study``
     bounds
     when it gives them): common practice for extruded sinks, no source.
     """

@@ -15,11 +15,8 @@ from finkit.physics.airflow.fans import FanCurve
 from finkit.physics.airflow.operating_point import power_law_pressure_drop
 from finkit.physics.geometry import PlateFinSink
 from finkit.physics.properties.atmosphere import ALTITUDE_RANGE, standard_atmosphere
-from finkit.physics.sink import (
-    FanDriven,
-    NaturalConvection,
-    SinkSolution,
-)
+from finkit.physics.sink.inputs import FanDriven, NaturalConvection
+from finkit.physics.sink.results import SinkSolution
 
 __all__ = [
     "EMPIRICAL_STATEMENT",

@@ -13,7 +13,7 @@ from finkit.model.review.scenarios import (
 )
 from finkit.physics.correlations import forced
 from finkit.physics.geometry import PlateFinSink
-from finkit.physics.sink import (
+from finkit.physics.sink.inputs import (
     NATURAL_CHANNEL_METHODS,
     PLATE_CHANNEL_CHOICES,
     NaturalConvection,
