@@ -24,6 +24,7 @@ import argparse
 import sys
 
 import finkit.physics.conduction as conduction
+from finkit.physics.conduction import mesh as conduction_mesh
 
 DESIGN = dict(
     base_width=0.1,
@@ -54,11 +55,11 @@ def main(argv=None) -> int:
     header = ("h0 [mm]", "level", "cells", "solver", "time [s]", "R [K/W]", "balance")
     print(" ".join(f"{h:>{w}}" for h, w in zip(header, WIDTHS, strict=True)))
     rows = []
-    design = conduction._design(
+    design = conduction_mesh._design(
         **DESIGN, base_heat_transfer_coefficient=None, base_thermal_conductivity=None
     )
     for cell_size, level in MESHES:
-        mesh = conduction._mesh(design, cell_size, level)  # cell count before solving
+        mesh = conduction_mesh._mesh(design, cell_size, level)  # cell count before solving
         nz = mesh.ze.size - 1
         fin_cells = mesh.fin_x.sum() * (nz - mesh.nzb) + mesh.fin_x.size * mesh.nzb
         cells = int(fin_cells * (mesh.ye.size - 1))

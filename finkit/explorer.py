@@ -892,7 +892,7 @@ class Explorer:
 
     def _curves(self, result) -> dict[str, Any]:
         """Every curve of the plots, from finkit.model (vectorised calls)."""
-        from finkit.model.design import fan_pressure, note_sweep, system_curve
+        from finkit.model.sweeps import fan_pressure, note_sweep, system_curve
         from finkit.physics.sink.inputs import FanDriven, NaturalConvection
 
         inputs = result.inputs

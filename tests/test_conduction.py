@@ -13,11 +13,11 @@ import pytest
 from finkit.errors import GeometryError, InputError
 from finkit.physics.conduction import (
     CONDUCTION_SOLVERS,
-    _richardson,
     compare_with_chain,
     refine_study,
     solve_plate_fin_conduction,
 )
+from finkit.physics.conduction.solve import _richardson
 from finkit.physics.fins.analytic import uniform_fin
 from finkit.physics.spreading import (
     spreading_resistance_rectangular_series,

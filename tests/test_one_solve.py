@@ -18,8 +18,8 @@ import numpy as np
 import pytest
 
 import finkit.model
-import finkit.model.design
 import finkit.model.run
+import finkit.model.sweeps
 from finkit import report
 from finkit.case import load_case
 from finkit.errors import PropertyRangeError
@@ -118,14 +118,14 @@ def test_note_sweep_splits_a_failing_range_in_halves(monkeypatch):
             raise PropertyRangeError("air hotter than the table")
         return {"values": values, "allowable_power": 2.0 * values}
 
-    monkeypatch.setattr(finkit.model.design, "sweep", fake_sweep)
+    monkeypatch.setattr(finkit.model.sweeps, "sweep", fake_sweep)
     values = np.arange(64.0)
     out = finkit.model.note_sweep(None, "airflow", values)
     assert np.all(np.isnan(out["allowable_power"][:10]))
     np.testing.assert_array_equal(out["allowable_power"][10:], 2.0 * values[10:])
     assert len(calls) < 30  # point by point would take 65 calls
     monkeypatch.setattr(
-        finkit.model.design,
+        finkit.model.sweeps,
         "sweep",
         lambda *a: (_ for _ in ()).throw(PropertyRangeError("every point fails")),
     )

@@ -4,7 +4,9 @@ Modules (each imports only from the layers below, :mod:`finkit.physics` and :mod
 and from the modules above it in this list):
 
 - :mod:`finkit.model.design`: one design at one condition (inputs from a case, solve, allowable
-  power, sweeps, the model-form check);
+  power, a condition's state);
+- :mod:`finkit.model.sweeps`: sweeps and the other quantities the notes plot;
+- :mod:`finkit.model.model_form`: the model-form check against 3-D conduction;
 - :mod:`finkit.model.results`: the result types (:class:`CaseResult`) and results.json units;
 - :mod:`finkit.model.uncertainty`, :mod:`finkit.model.review`, :mod:`finkit.model.trade`: the
   studies (Monte Carlo and sensitivity; scenarios, calibration, touch and checks; the trade study);
@@ -16,48 +18,11 @@ The names below are re-exported for users and notebooks (``from finkit.model imp
 code inside finkit imports from the module that defines a name.
 """
 
-from finkit.model.design import (  # noqa: F401
-    MODEL_FORM_CELLS_ACROSS,
-    MODEL_FORM_LEVELS,
-    MODEL_FORM_MAX_CELLS,
-    NOTE_SWEEPS,
-    SWEEPABLE,
-    ConditionState,
-    ModelFormCheck,
-    SinkInputs,
-    airflow_of,
-    allowable,
-    fan_curve,
-    fan_pressure,
-    fin_temperature_profile,
-    is_fin_tip_exposed,
-    model_form_arguments,
-    model_form_check,
-    note_airflow_range,
-    note_h_range,
-    note_inlet_range,
-    note_sweep,
-    note_sweep_values,
-    single_fin_profiles,
-    sink_inputs,
-    solve,
-    solve_condition,
-    sweep,
-    sweep_notes,
-    swept_inputs,
-    system_curve,
-    volume_flow_for_power,
-)
-from finkit.model.results import (  # noqa: F401
-    RESULT_UNITS,
-    RESULTS_SCHEMA_VERSION,
-    CaseResult,
-    ReviewResult,
-    UncertaintyResult,
-)
-from finkit.model.run import (  # noqa: F401
-    NO_SCENARIO_WARNING,
-    NO_SCENARIO_WARNING_NATURAL,
-    governing_results,
-    run_case,
-)
+from finkit.model import design, model_form, results, run, sweeps
+from finkit.model.design import *  # noqa: F403
+from finkit.model.model_form import *  # noqa: F403
+from finkit.model.results import *  # noqa: F403
+from finkit.model.run import *  # noqa: F403
+from finkit.model.sweeps import *  # noqa: F403
+
+__all__ = [name for module in (design, sweeps, model_form, results, run) for name in module.__all__]

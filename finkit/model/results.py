@@ -19,6 +19,14 @@ from finkit.constants import ZERO_CELSIUS
 from finkit.model.design import SinkInputs
 from finkit.physics.sink.results import SinkSolution
 
+__all__ = [
+    "CaseResult",
+    "RESULTS_SCHEMA_VERSION",
+    "RESULT_UNITS",
+    "ReviewResult",
+    "UncertaintyResult",
+]
+
 #: Names and units of the results every results.json carries (null where not applicable).
 RESULT_UNITS = {
     "sink_resistance": "K/W",

@@ -13,9 +13,17 @@ from typing import Any
 
 from finkit.constants import ZERO_CELSIUS
 from finkit.errors import PropertyRangeError
-from finkit.model.design import SinkInputs, sink_inputs, solve_condition, sweep_notes
+from finkit.model.design import SinkInputs, sink_inputs, solve_condition
 from finkit.model.results import RESULT_UNITS, CaseResult, ReviewResult, UncertaintyResult
+from finkit.model.sweeps import sweep_notes
 from finkit.physics.sink.inputs import NaturalConvection
+
+__all__ = [
+    "NO_SCENARIO_WARNING",
+    "NO_SCENARIO_WARNING_NATURAL",
+    "governing_results",
+    "run_case",
+]
 
 #: Warning of a heat-sink case that checks only the condition as stated.
 NO_SCENARIO_WARNING = (

@@ -80,7 +80,7 @@ def plot_fin_profile(result):
         Temperature [°C] against distance from the base [mm], with the inlet (and outlet) air
         and the limit marked. [-]
     """
-    from finkit.model.design import fin_temperature_profile
+    from finkit.model.sweeps import fin_temperature_profile
 
     p = fin_temperature_profile(result.inputs, result.solution)
     sol = result.solution
@@ -144,7 +144,7 @@ def plot_fin_profile(result):
 
 def figure_fin_profile(result) -> present.Fragment:
     """:func:`plot_fin_profile` embedded with its caption."""
-    from finkit.model.design import is_fin_tip_exposed
+    from finkit.model.sweeps import is_fin_tip_exposed
 
     tip = (
         "exposed (adiabatic on the corrected length)"
@@ -168,7 +168,7 @@ def figure_fin_profile(result) -> present.Fragment:
 
 
 def _inlet_range(result) -> np.ndarray:
-    from finkit.model.design import note_inlet_range
+    from finkit.model.sweeps import note_inlet_range
 
     return note_inlet_range(result.inputs)
 
@@ -192,7 +192,7 @@ def plot_allowable_vs_inlet(result):
     """
     from dataclasses import replace
 
-    from finkit.model.design import note_sweep
+    from finkit.model.sweeps import note_sweep
 
     inputs = result.inputs
     values = _inlet_range(result)
@@ -263,13 +263,13 @@ def figure_allowable_vs_inlet(result) -> present.Fragment:
 
 
 def _airflow_range(result) -> np.ndarray:
-    from finkit.model.design import note_airflow_range
+    from finkit.model.sweeps import note_airflow_range
 
     return note_airflow_range(result.solution)
 
 
 def _h_range(result) -> np.ndarray:
-    from finkit.model.design import note_h_range
+    from finkit.model.sweeps import note_h_range
 
     return note_h_range(result.solution)
 
@@ -293,7 +293,7 @@ def plot_vs_airflow(result):
     matplotlib.figure.Figure
         Two panels sharing the x axis: allowable power [W] and fin efficiency [-]. [-]
     """
-    from finkit.model.design import note_sweep
+    from finkit.model.sweeps import note_sweep
 
     natural = _is_natural(result)
     name = "heat_transfer_coefficient" if natural else "airflow"
@@ -381,7 +381,7 @@ def plot_fan_system(result):
     matplotlib.figure.Figure
         Static pressure [Pa] against volume flow [m³/s], with a CFM axis on top. [-]
     """
-    from finkit.model.design import fan_pressure, system_curve, volume_flow_for_power
+    from finkit.model.sweeps import fan_pressure, system_curve, volume_flow_for_power
 
     inputs = result.inputs
     sol = result.solution
@@ -590,7 +590,7 @@ _SWEEP_AXIS = {
 
 def _sweep_values(result, name: str) -> tuple[np.ndarray, float]:
     """Values (SI) and the case's own value of a sweep (``finkit.model.note_sweep_values``)."""
-    from finkit.model.design import note_sweep_values
+    from finkit.model.sweeps import note_sweep_values
 
     values, case_value, _ = note_sweep_values(
         result.inputs, result.solution, float(result.case.air.altitude), name
@@ -615,7 +615,7 @@ def plot_sweep(result, name: str):
         Left: limit-node temperature [°C] with the limit marked; right: allowable power [W]
         with the stated power (no right panel for a power sweep). [-]
     """
-    from finkit.model.design import note_sweep
+    from finkit.model.sweeps import note_sweep
 
     values, case_value = _sweep_values(result, name)
     s = note_sweep(result.inputs, name, values)

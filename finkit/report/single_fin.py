@@ -347,7 +347,7 @@ def plot_fin_profiles_study(result):
     matplotlib.figure.Figure
         Two panels of temperature [°C] against distance from the base [mm]. [-]
     """
-    from finkit.model.design import single_fin_profiles
+    from finkit.model.sweeps import single_fin_profiles
 
     p = single_fin_profiles(result.case)
     case = result.case

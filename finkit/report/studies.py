@@ -529,7 +529,7 @@ def model_form_table(result, check=None) -> present.Fragment:
         source to air, and the difference from 3-D [%] and at the stated power [K]. A sentence
         when not covered. [-]
     """
-    from finkit.model.design import model_form_check
+    from finkit.model.model_form import model_form_check
 
     check = model_form_check(result) if check is None else check
     if not check.is_covered:
@@ -643,7 +643,7 @@ def model_form_section(result) -> present.Fragment:
         Heading, what is compared, :func:`model_form_table`, the verdict, what it means for the
         margin, and the mesh. [-]
     """
-    from finkit.model.design import model_form_check
+    from finkit.model.model_form import model_form_check
 
     heading = present.heading("Model-form check: 1-D chain against 3-D conduction", 3)
     check = model_form_check(result)

@@ -1,6 +1,11 @@
 """Single fins: closed forms (:mod:`.analytic`) and the 1-D fin BVP (:mod:`.numeric`)."""
 
-from finkit.physics.fins.analytic import (
+from finkit.physics.fins.analytic.annular import (
+    annular_fin,
+    annular_fin_efficiency,
+    annular_fin_efficiency_schmidt,
+)
+from finkit.physics.fins.analytic.groups import (
     ANNULAR_TIP_CONDITIONS,
     ONE_DIMENSIONAL_FIN_RANGE,
     SCHMIDT_ANNULAR_RANGE,
@@ -9,20 +14,21 @@ from finkit.physics.fins.analytic import (
     FinSection,
     ProfileFinResult,
     UniformFinResult,
-    annular_fin,
-    annular_fin_efficiency,
-    annular_fin_efficiency_schmidt,
     corrected_length,
     fin_parameter,
-    infinite_fin_length,
     one_dimensional_fin_warnings,
-    pin_fin_concave_parabolic,
-    pin_fin_conical,
     pin_fin_section,
     rectangular_fin_section,
+    transverse_biot_number,
+)
+from finkit.physics.fins.analytic.tapered import (
+    pin_fin_concave_parabolic,
+    pin_fin_conical,
     straight_fin_concave_parabolic,
     straight_fin_triangular,
-    transverse_biot_number,
+)
+from finkit.physics.fins.analytic.uniform import (
+    infinite_fin_length,
     uniform_fin,
     uniform_fin_efficiency_corrected_length,
     uniform_fin_temperature_difference,

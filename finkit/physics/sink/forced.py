@@ -8,7 +8,7 @@ import numpy as np
 
 from finkit.physics.correlations import forced
 from finkit.physics.fins import analytic as fins
-from finkit.physics.fins.analytic import one_dimensional_fin_warnings
+from finkit.physics.fins.analytic.groups import one_dimensional_fin_warnings
 from finkit.physics.geometry import PlateFinSink
 from finkit.physics.properties.air import air_properties
 from finkit.physics.sink.airflow import (

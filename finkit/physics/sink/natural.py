@@ -10,7 +10,7 @@ from finkit.errors import InputError, SolverError
 from finkit.physics.airflow.roots import bracketed_root
 from finkit.physics.correlations import natural
 from finkit.physics.fins import analytic as fins
-from finkit.physics.fins.analytic import one_dimensional_fin_warnings
+from finkit.physics.fins.analytic.groups import one_dimensional_fin_warnings
 from finkit.physics.geometry import PlateFinSink
 from finkit.physics.properties.air import air_properties
 from finkit.physics.radiation import plate_fin_radiation
