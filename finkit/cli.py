@@ -273,6 +273,11 @@ def _lab(args) -> int:
         command.append("--allow-root")
     extra = list(args.jupyter_args or [])
     command += extra[1:] if extra[:1] == ["--"] else extra
+    sys.stdout.flush()
+    if os.name == "posix":
+        # JupyterLab takes this process's place, so a signal to `finkit lab` (Ctrl-C, kill)
+        # reaches the server itself rather than leaving it running without its parent.
+        os.execv(command[0], command)
     return subprocess.call(command)
 
 

@@ -12,8 +12,10 @@ from __future__ import annotations
 
 import importlib.util
 import json
+import os
 import re
 import shutil
+import signal
 import socket
 import subprocess
 import sys
@@ -118,6 +120,7 @@ def lab():
         ],
         stdout=log,
         stderr=subprocess.STDOUT,
+        start_new_session=True,  # finkit lab starts JupyterLab, which starts kernels: one group
     )
     profile = tempfile.mkdtemp(prefix="finkit-chromium-")
     chromium = None
@@ -174,11 +177,16 @@ def lab():
         if chromium is not None:
             chromium.kill()
             chromium.wait()
-        server.terminate()
+        # the whole group: stopping only `finkit lab` left JupyterLab and its kernel running
+        os.killpg(server.pid, signal.SIGTERM)
         try:
             server.wait(timeout=20)
         except subprocess.TimeoutExpired:
-            server.kill()
+            os.killpg(server.pid, signal.SIGKILL)
+        try:
+            os.killpg(server.pid, signal.SIGKILL)  # anything of the group still there
+        except ProcessLookupError:
+            pass
         log.close()
         shutil.rmtree(profile, ignore_errors=True)
         shutil.rmtree(root, ignore_errors=True)
