@@ -28,7 +28,7 @@ test: setup lint
 	$(BIN)/python -m pytest
 
 test-fast: setup
-	$(BIN)/python -m pytest -q -m "not slow"
+	$(BIN)/python -m pytest -q -m "not slow" -n auto
 
 demo: setup
 	$(BIN)/python -m finkit.demo

@@ -20,7 +20,8 @@ from pathlib import Path
 import yaml
 
 from finkit.case import load_case
-from finkit.explorer import _nominal, explore
+from finkit.explorer import explore
+from finkit.explorer.controls import _nominal
 from finkit.model import run_case
 
 ROOT = Path(__file__).resolve().parent.parent

@@ -8,10 +8,11 @@ The top level re-exports the four entry points of the case workflow, imported la
 - :func:`render_note` (``finkit.notes``): case -> executed, dated HTML calculation note;
 - :func:`run_batch` (``finkit.batch``): base case + variant table -> notes and an overview.
 
-The physics lives in the subpackages: ``finkit.physics.fins``, ``finkit.physics.properties``,
-``finkit.physics.correlations``, ``finkit.physics.geometry``, ``finkit.physics.airflow``,
-``finkit.physics.radiation``,
-``finkit.physics.spreading`` and ``finkit.physics.sink``.
+The package is layered, each layer importing only from those below it (DEVELOPERS.md):
+``finkit.physics`` (fins, properties, correlations, geometry, airflow, radiation, spreading,
+conduction, the sink), ``finkit.case`` (the case-file boundary), ``finkit.model`` (a case solved,
+its studies), ``finkit.report`` (note sections), and ``finkit.notes``, ``finkit.batch``,
+``finkit.explorer`` and ``finkit.cli`` on top.
 """
 
 from importlib import import_module

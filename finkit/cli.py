@@ -30,7 +30,13 @@ EXIT_PASS, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
 
 def starter_text(kind: str) -> str:
-    """The commented starter case file for ``kind`` (one of :data:`STARTERS`)."""
+    """The commented starter case file for ``kind`` (one of :data:`STARTERS`).
+
+    Parameters
+    ----------
+    kind : str
+        Kind of case, a key of :data:`STARTERS`. [-]
+    """
     if kind not in STARTERS:
         raise FinkitError(f"starter: unknown kind '{kind}' (allowed: {', '.join(STARTERS)})")
     return (resources.files("finkit") / "data" / "starters" / f"{kind}.yaml").read_text("utf-8")
@@ -198,7 +204,7 @@ def _check(args) -> int:
 
 
 def _note(args) -> int:
-    from finkit.notes import render_note
+    from finkit.notes.render import render_note
 
     case_path = Path(args.case)
     template, results = _note_template(args.template)
@@ -290,7 +296,7 @@ def _compare(args) -> int:
     else:
         print(comparison.text())
     if args.html:
-        from finkit.notes import atomic_write
+        from finkit.notes.files import atomic_write
 
         written = atomic_write(Path(args.html), comparison.html())
         print(f"comparison page: {written}", file=sys.stderr if args.json else sys.stdout)
@@ -500,8 +506,13 @@ def main(argv: list[str] | None = None) -> int:
     0 pass (or the command did its job), 1 the case fails its limit, 2 the input is wrong,
     3 an internal error or a problem of the environment (disk, permissions): one line naming
     it and the log file with the details, never a traceback (``--debug`` shows it).
+
+    Parameters
+    ----------
+    argv : list of str, optional
+        Command-line arguments; default ``sys.argv[1:]``. [-]
     """
-    from finkit.notes import skip_unused_slow_imports
+    from finkit.notes.files import skip_unused_slow_imports
 
     skip_unused_slow_imports()
     parser = build_parser()

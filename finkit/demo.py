@@ -23,12 +23,20 @@ TRADE_STUDY = DEMO_CASES / "nb200-trade-study.yaml"
 
 
 def main(argv: list[str] | None = None) -> int:
+    """Render every demo case's note and the demo batch into ``--out``; returns the exit code.
+
+    Parameters
+    ----------
+    argv : list of str, optional
+        Command-line arguments; default ``sys.argv[1:]``. [-]
+    """
     parser = argparse.ArgumentParser(prog="python -m finkit.demo", description=__doc__)
     parser.add_argument("--out", default=str(ROOT / "demo_out"), help="output folder")
     args = parser.parse_args(argv)
     out = Path(args.out)
 
-    from finkit.notes import render_note, skip_unused_slow_imports
+    from finkit.notes.files import skip_unused_slow_imports
+    from finkit.notes.render import render_note
 
     skip_unused_slow_imports()
 

@@ -153,12 +153,12 @@ def test_a_full_disk_while_writing_a_note_exits_3_and_leaves_nothing_half_writte
     tmp_path, monkeypatch
 ):
     # ENOSPC cannot be produced on a shared CI disk; it is injected where finkit writes.
-    from finkit import notes
+    from finkit.notes import render
 
     def full(path, text, *args, **kwargs):
         raise OSError(errno.ENOSPC, "No space left on device", str(path))
 
-    monkeypatch.setattr(notes, "atomic_write", full)
+    monkeypatch.setattr(render, "atomic_write", full)  # where render_note writes its files
     case = tmp_path / "case.yaml"
     case.write_text((ROOT / "demo_cases" / "nb300-pin-ducted.yaml").read_text(), encoding="utf-8")
     code, _, stderr = _run(["note", str(case), "--out", str(tmp_path / "out")])

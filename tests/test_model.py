@@ -73,3 +73,21 @@ def test_a_bad_fan_table_is_reported_on_the_case_fields():
     data["air"]["flow"]["fan"]["pressure"][-1] = "0.01 inH2O"  # does not reach free delivery
     with pytest.raises(InputError, match=r"^air\.flow\.fan\.pressure\[7\]"):
         run_case(load_case(data))
+
+
+@pytest.mark.parametrize("design", ["plate_fin_demo", "pin_fin_demo"])
+def test_every_number_of_results_json_carries_its_unit(design, request):
+    # Common practice, no source: a number in results.json without its unit is unreadable.
+    # Every headline result is {"value", "unit"} with the unit of RESULT_UNITS, in the headline,
+    # the nominal condition and every condition.
+    from finkit.model import RESULT_UNITS
+
+    _, result = request.getfixturevalue(design)
+    data = result.to_json_dict()
+    tables = [data["results"], data["nominal"]] + [c["results"] for c in data["conditions"]]
+    for table in tables:
+        assert set(table) == set(RESULT_UNITS)
+        for name, entry in table.items():
+            assert set(entry) == {"value", "unit"}, name
+            assert entry["unit"] == RESULT_UNITS[name], name
+            assert entry["value"] is None or isinstance(entry["value"], int | float), name

@@ -210,7 +210,7 @@ def test_atomic_write_failure_keeps_old_file_and_no_temporary(tmp_path, monkeypa
     def boom(*args, **kwargs):
         raise OSError("disk full")
 
-    monkeypatch.setattr(notes.os, failing, boom)
+    monkeypatch.setattr(os, failing, boom)
     with pytest.raises(OSError, match="disk full"):
         notes.atomic_write(target, "half a note")
     monkeypatch.undo()
@@ -286,13 +286,13 @@ def test_prepare_case_rejects_bad_mappings(case, match):
 
 
 def test_note_time_needs_a_time_zone():
-    assert notes._note_time(NOTE_TIME) == NOTE_TIME
+    assert notes.parse_note_time(NOTE_TIME) == NOTE_TIME
     aware = dt.datetime(2025, 3, 14, 9, 30, tzinfo=dt.UTC)
-    assert notes._note_time(aware) == "2025-03-14T09:30:00+00:00"
-    assert dt.datetime.fromisoformat(notes._note_time(None)).tzinfo is not None
+    assert notes.parse_note_time(aware) == "2025-03-14T09:30:00+00:00"
+    assert dt.datetime.fromisoformat(notes.parse_note_time(None)).tzinfo is not None
     for bad in (dt.datetime(2025, 3, 14, 9, 30), "2025-03-14T09:30:00", "yesterday"):
         with pytest.raises(InputError, match="execution_time"):
-            notes._note_time(bad)
+            notes.parse_note_time(bad)
 
 
 def test_template_without_parameters_cell_is_rejected(tmp_path):

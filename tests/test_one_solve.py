@@ -29,14 +29,8 @@ from finkit.report import compare, present
 DEMO = Path(__file__).resolve().parent.parent / "demo_cases"
 
 
-@pytest.fixture(scope="module")
-def plate():
-    case = load_case(DEMO / "nb200-plate-fan.yaml")
-    return case, run_case(case)
-
-
-def test_solved_result_round_trips_for_the_same_inputs(tmp_path, plate):
-    case, result = plate
+def test_solved_result_round_trips_for_the_same_inputs(tmp_path, plate_fin_demo):
+    case, result = plate_fin_demo
     path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, case, result, comparison="x")
     payload = handover.read_solved(str(path), load_case(DEMO / "nb200-plate-fan.yaml"))
     assert payload is not None and payload["comparison"] == "x"
@@ -44,8 +38,8 @@ def test_solved_result_round_trips_for_the_same_inputs(tmp_path, plate):
     assert payload["result"].warnings == result.warnings
 
 
-def test_solved_result_is_refused_for_anything_else(tmp_path, plate, monkeypatch):
-    case, result = plate
+def test_solved_result_is_refused_for_anything_else(tmp_path, plate_fin_demo, monkeypatch):
+    case, result = plate_fin_demo
     path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, case, result)
     other = load_case(DEMO / "nb200-plate-fan-rev-a.yaml")
     assert handover.read_solved(str(path), other) is None  # other inputs
@@ -61,8 +55,8 @@ def test_solved_result_is_refused_for_anything_else(tmp_path, plate, monkeypatch
     assert handover.read_solved(str(path), case) is None  # written by another finkit version
 
 
-def test_report_run_takes_the_handed_result_without_solving(tmp_path, plate, monkeypatch):
-    case, result = plate
+def test_report_run_takes_the_handed_result_without_solving(tmp_path, plate_fin_demo, monkeypatch):
+    case, result = plate_fin_demo
     path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, case, result)
 
     def no_solve(*args, **kwargs):
@@ -73,8 +67,8 @@ def test_report_run_takes_the_handed_result_without_solving(tmp_path, plate, mon
     assert handed.results == result.results
 
 
-def test_report_run_solves_when_the_handed_result_is_for_other_inputs(tmp_path, plate):
-    case, result = plate
+def test_report_run_solves_when_the_handed_result_is_for_other_inputs(tmp_path, plate_fin_demo):
+    case, result = plate_fin_demo
     other = load_case(DEMO / "nb200-plate-fan-rev-a.yaml")
     path = handover.write_solved(tmp_path / handover.SOLVED_PICKLE, other, run_case(other))
     solved = report.run(dict(case.entered), solved=str(path))

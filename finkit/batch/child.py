@@ -140,7 +140,8 @@ def _inprocess_kernel_manager() -> Any:
 
 def _render_child(task: Mapping[str, Any]) -> dict[str, Any]:
     """Render one variant's note in this (child) process; returns the outcome as a dict."""
-    from finkit.notes import NoteExecutionError, NoteRenderError, render_note
+    from finkit.notes.files import NoteExecutionError, NoteRenderError
+    from finkit.notes.render import render_note
 
     _reseed()
     stages: dict[str, float] = {}
@@ -325,7 +326,7 @@ def _warm_up(templates: Iterable[Path], show_code: bool, paper: str, validated: 
         except Exception:  # noqa: BLE001 - 'from x import function' names are not modules
             pass
     _inprocess_classes()
-    notes._library_versions()
+    notes.library_versions()
     if validated is not None:
         try:
             from finkit.model.run import run_case

@@ -144,13 +144,26 @@ class VariantOutcome:
     key: str | None = None
 
     def result_value(self, name: str) -> float | None:
-        """A result's value from ``results.json`` (``None`` when absent)."""
+        """A result's value from ``results.json`` (``None`` when absent).
+
+        Parameters
+        ----------
+        name : str
+            Result name, e.g. ``"junction_temperature"``; the value is in the unit that
+            :meth:`result_unit` gives for it. [-]
+        """
         entry = ((self.results or {}).get("results") or {}).get(name)
         value = entry.get("value") if isinstance(entry, Mapping) else entry
         return float(value) if isinstance(value, int | float) and math.isfinite(value) else None
 
     def result_unit(self, name: str) -> str:
-        """A result's unit from ``results.json`` (``""`` when absent)."""
+        """A result's unit from ``results.json`` (``""`` when absent).
+
+        Parameters
+        ----------
+        name : str
+            Result name, e.g. ``"junction_temperature"``. [-]
+        """
         entry = ((self.results or {}).get("results") or {}).get(name)
         return str(entry.get("unit", "")) if isinstance(entry, Mapping) else ""
 

@@ -105,7 +105,18 @@ def run_batch(
     refused with one line (it would otherwise delete the first one's run folder and could have
     a later re-run reuse a note of the wrong variant). A run folder and note scratch folders
     left by a killed batch are removed first (the lock proves no batch is using them).
-    ``options`` are those of :func:`_run_batch_locked`, documented there.
+
+    Parameters
+    ----------
+    base : path-like or mapping
+        Base case: a YAML file or the case mapping as entered. [-]
+    variants : path-like or sequence of mappings
+        Variant table: a CSV or YAML file, or the rows as mappings. [-]
+    out_dir : path-like
+        Batch folder: one sub-folder per variant and the overview. [-]
+    **options
+        Those of :func:`_run_batch_locked`, documented there (template, jobs, timeout,
+        scheduler, ...). [-]
     """
     import fcntl
 
@@ -196,8 +207,8 @@ def _run_batch_locked(
         After killing the running notes and writing the overview of what was done.
     """
     started_wall = time.monotonic()
-    note_time = notes._note_time(execution_time)
-    notes._check_paper(paper)
+    note_time = notes.parse_note_time(execution_time)
+    notes.check_paper(paper)
     if not (isinstance(timeout, int | float) and math.isfinite(timeout) and timeout > 0):
         raise InputError(f"timeout={timeout!r} s is not allowed; use a positive number of seconds")
     if jobs is None:
@@ -207,7 +218,7 @@ def _run_batch_locked(
 
     _, base_validated, base_label = _load_base(base)
     template_file = notes.template_path(base_validated.kind, template)
-    notes._check_template(template_file)
+    notes.check_template(template_file)
     prepared = prepare_variants(base, variants)
     variants_label = str(variants) if isinstance(variants, str | os.PathLike) else "(list)"
 

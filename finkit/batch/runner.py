@@ -192,8 +192,8 @@ def _rescue_partial_notebook(task: Mapping[str, Any], what: str) -> str:
             continue
     where = "kernel start"
     if nb is not None:
-        cells = notes._executed_cells(nb)
-        where = notes._describe_cell(cells, notes._failing_index(cells))
+        cells = notes.executed_cells(nb)
+        where = notes.describe_cell(cells, notes.failing_index(cells))
     message = f"note for case {variant!r} failed at {where}: {what}"
     if nb is not None:
         try:
@@ -370,7 +370,13 @@ def _run_on_cluster(
 
 
 def main(argv: list[str] | None = None) -> int:
-    """``python -m finkit.batch --run-task TASK.json RESULT.json``: render one variant."""
+    """``python -m finkit.batch --run-task TASK.json RESULT.json``: render one variant.
+
+    Parameters
+    ----------
+    argv : list of str, optional
+        Command-line arguments; default ``sys.argv[1:]``. [-]
+    """
     import argparse
 
     parser = argparse.ArgumentParser(prog="python -m finkit.batch")

@@ -127,7 +127,7 @@ def _check_variant_id(variant: Any, row: int, seen: dict[str, int]) -> list[str]
         ]
     if variant in seen:
         return [f"{label}: {variant!r} is used already in row {seen[variant]}; ids must differ"]
-    if variant.split(".")[0].upper() in notes._WINDOWS_RESERVED:
+    if variant.split(".")[0].upper() in notes.WINDOWS_RESERVED:
         return [f"{label}: {variant!r} is a reserved device name on Windows; choose another"]
     return []
 
@@ -366,7 +366,7 @@ def _load_base(base: str | os.PathLike | Mapping[str, Any]) -> tuple[dict, Any, 
         validated = load_case(dict(base) if isinstance(base, Mapping) else Path(base))
     except CaseError as exc:
         raise CaseError([f"base case: {line}" for line in exc.errors]) from None
-    entered = notes._json_safe(validated.entered, "case")
+    entered = notes.json_safe(validated.entered, "case")
     label = str(base) if not isinstance(base, Mapping) else f"(mapping) {validated.case_id}"
     return entered, validated, label
 
@@ -419,7 +419,7 @@ def prepare_variants(
                 merged.pop("previous_revision", None)
             try:
                 validated = load_case(merged)
-                merged = notes._json_safe(validated.entered, "case")
+                merged = notes.json_safe(validated.entered, "case")
             except CaseError as exc:
                 for line in exc.errors:
                     hit = _columns_for(line, list(row.overrides))
@@ -490,7 +490,7 @@ def variant_key(
         {
             "inputs_sha256": case_inputs_sha256(validated),
             "entered_sha256": _sha256_json(
-                notes._json_safe(entered if entered is not None else validated.entered, "case")
+                notes.json_safe(entered if entered is not None else validated.entered, "case")
             ),
             "template_sha256": hashlib.sha256(Path(template).read_bytes()).hexdigest(),
             "finkit_version": __version__,
