@@ -376,6 +376,7 @@ def _positive_float(text: str) -> float:
 
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``finkit`` command."""
+    # Long by design: the argparse declaration of every command and option, one after the other.
     from finkit import __version__
 
     parser = argparse.ArgumentParser(

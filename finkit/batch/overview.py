@@ -159,6 +159,8 @@ def _note_links(out: Path, o: VariantOutcome) -> dict[str, str | None]:
 def _write_overview(
     out: Path, info: dict, outcomes: Sequence[VariantOutcome]
 ) -> tuple[Path, Path, Path]:
+    # Long by design: writes the three overview files in turn (summary.csv, summary.json,
+    # index.html).
     from finkit import __version__
 
     overrides = _override_columns(outcomes)

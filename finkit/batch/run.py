@@ -206,6 +206,8 @@ def _run_batch_locked(
     KeyboardInterrupt
         After killing the running notes and writing the overview of what was done.
     """
+    # Long by design: the batch's steps in order (validate every variant, skip current ones, run,
+    # record, write the overview), each a few lines with its own error handling.
     started_wall = time.monotonic()
     note_time = notes.parse_note_time(execution_time)
     notes.check_paper(paper)

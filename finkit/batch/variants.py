@@ -105,7 +105,7 @@ def _parse_cell(text: str) -> tuple[bool, Any]:
 
 def _is_text_path(path: str) -> bool:
     """True when the last field of a dotted column path is a text field of the case."""
-    from finkit.case.schema import text_keys
+    from finkit.case.messages import text_keys
 
     last = _split_path(path)
     last = [p for p in last if isinstance(p, str)][-1]
@@ -360,7 +360,8 @@ def _columns_for(message: str, columns: Sequence[str]) -> list[str]:
 
 
 def _load_base(base: str | os.PathLike | Mapping[str, Any]) -> tuple[dict, Any, str]:
-    from finkit.case.schema import CaseError, load_case
+    from finkit.case.parts import CaseError
+    from finkit.case.schema import load_case
 
     try:
         validated = load_case(dict(base) if isinstance(base, Mapping) else Path(base))
@@ -396,7 +397,8 @@ def prepare_variants(
     finkit.errors.InputError
         If the table as a whole cannot be used.
     """
-    from finkit.case.schema import CaseError, load_case
+    from finkit.case.parts import CaseError
+    from finkit.case.schema import load_case
 
     entered, _, _ = _load_base(base)
     out = []

@@ -14,6 +14,11 @@ import numpy as np
 from finkit.errors import InputError
 from finkit.physics.geometry import PlateFinSink
 
+__all__ = [
+    "Envelope",
+    "ManufacturingBounds",
+]
+
 
 @dataclass(frozen=True)
 class Envelope:
@@ -54,6 +59,14 @@ class Envelope:
         ``inputs`` is anything with a ``geometry`` (:class:`PlateFinSink` or ``PinFinSink``),
         e.g. :class:`finkit.model.design.SinkInputs` (not imported: the case layer sits below
         the model layer).
+
+        Parameters
+        ----------
+        inputs : object
+            The case's inputs, anything with a ``geometry`` (e.g.
+            :class:`finkit.model.design.SinkInputs`). [-]
+        max_height : float, optional
+            Overall height, base plus fins; None: the case's present height. [m]
         """
         g = inputs.geometry
         fin = g.fin_height if isinstance(g, PlateFinSink) else g.pin_height

@@ -61,6 +61,7 @@ from finkit.tolerance import TOLERANCE_INPUTS, Tolerance
 __all__ = [
     "BoundsBlock",
     "ExploreError",
+    "MAX_SAMPLES",
     "MonteCarloBlock",
     "RangeBlock",
     "ToleranceEntry",
@@ -217,7 +218,13 @@ class TolerancesBlock(_Model):
 
 
 def to_tolerances(block: TolerancesBlock) -> dict[str, Tolerance]:
-    """The :class:`~finkit.model.uncertainty.Tolerance` of every input named in the block (SI)."""
+    """The :class:`~finkit.model.uncertainty.Tolerance` of every input named in the block (SI).
+
+    Parameters
+    ----------
+    block : TolerancesBlock
+        The validated ``tolerances:`` block. [-]
+    """
     out = {}
     for name, spec in TOLERANCE_INPUTS.items():
         entry = getattr(block, name)
@@ -289,7 +296,18 @@ class RangeBlock(_Model):
         return self
 
     def array(self, kind: str, field: str, *, default_points: int = 9) -> np.ndarray:
-        """The values in SI; a count range without ``points`` gives every whole number."""
+        """The values in SI; a count range without ``points`` gives every whole number.
+
+        Parameters
+        ----------
+        kind : str
+            Kind of quantity, as in :func:`finkit.case.units.to_si` (``"count"`` for a
+            whole number). [-]
+        field : str
+            Field path of the range, e.g. ``trade_study.fin_height``, for messages. [-]
+        default_points : int, optional
+            Number of values of a ``low``/``high`` range without ``points``. [-]
+        """
         if self.values is not None:
             return np.array([to_si(v, kind, f"{field}.values") for v in self.values], float)
         lo, hi = to_si(self.low, kind, f"{field}.low"), to_si(self.high, kind, f"{field}.high")
@@ -302,7 +320,15 @@ class RangeBlock(_Model):
         return np.linspace(lo, hi, self.points or default_points)
 
     def pair(self, kind: str, field: str) -> tuple[float, float]:
-        """(low, high) in SI, for sampling."""
+        """(low, high) in SI, for sampling.
+
+        Parameters
+        ----------
+        kind : str
+            Kind of quantity, as in :func:`finkit.case.units.to_si`. [-]
+        field : str
+            Field path of the range, e.g. ``trade_study.fin_height``, for messages. [-]
+        """
         if self.values is not None:
             v = self.array(kind, field)
             return float(v.min()), float(v.max())
@@ -385,18 +411,39 @@ class TradeStudyBlock(_Model):
 
 
 def to_bounds(block: TradeStudyBlock | BoundsBlock) -> ManufacturingBounds:
-    """The :class:`~finkit.case.bounds.ManufacturingBounds` of a block (SI)."""
+    """The :class:`~finkit.case.bounds.ManufacturingBounds` of a block (SI).
+
+    Parameters
+    ----------
+    block : TradeStudyBlock or BoundsBlock
+        A validated ``trade_study:`` block (its ``bounds``) or a ``bounds`` block. [-]
+    """
     b = block.bounds if isinstance(block, TradeStudyBlock) else block
     return ManufacturingBounds(**b.model_dump())
 
 
 def to_envelope(block: TradeStudyBlock, inputs) -> Envelope:
-    """The :class:`~finkit.case.bounds.Envelope`: the case's base and the block's ``max_height``."""
+    """The :class:`~finkit.case.bounds.Envelope`: the case's base and the block's ``max_height``.
+
+    Parameters
+    ----------
+    block : TradeStudyBlock
+        The validated ``trade_study:`` block. [-]
+    inputs : object
+        The case's inputs, anything with a ``geometry`` (e.g.
+        :class:`finkit.model.design.SinkInputs`). [-]
+    """
     return Envelope.of(inputs, block.max_height)
 
 
 def to_trade_axes(block: TradeStudyBlock) -> dict[str, np.ndarray | tuple[float, float]]:
-    """Design variables in SI: arrays for a grid, (low, high) pairs for sampling."""
+    """Design variables in SI: arrays for a grid, (low, high) pairs for sampling.
+
+    Parameters
+    ----------
+    block : TradeStudyBlock
+        The validated ``trade_study:`` block. [-]
+    """
     names = _PLATE_AXES if block.sink_type == "plate-fin" else _PIN_AXES
     out = {}
     for name in names:
@@ -420,7 +467,15 @@ def _path(prefix: str, loc) -> str:
 
 
 def explore_errors(exc: ValidationError, prefix: str) -> list[str]:
-    """One line per problem of a validation error, ``prefix.path.to.field: message``."""
+    """One line per problem of a validation error, ``prefix.path.to.field: message``.
+
+    Parameters
+    ----------
+    exc : pydantic.ValidationError
+        The error raised by validating a block. [-]
+    prefix : str
+        Name of the block, put before every field path, e.g. ``tolerances``. [-]
+    """
     lines = []
     for err in exc.errors():
         loc = [p for p in err["loc"] if not str(p).startswith(("function-", "union["))]
@@ -453,15 +508,33 @@ def _load(model, data, prefix):
 
 
 def load_tolerances(data: dict) -> TolerancesBlock:
-    """Validate a ``tolerances:`` mapping; raises :class:`ExploreError` (one line per problem)."""
+    """Validate a ``tolerances:`` mapping; raises :class:`ExploreError` (one line per problem).
+
+    Parameters
+    ----------
+    data : dict
+        The ``tolerances:`` mapping as entered (unit strings kept). [-]
+    """
     return _load(TolerancesBlock, data, "tolerances")
 
 
 def load_monte_carlo(data: dict) -> MonteCarloBlock:
-    """Validate a ``monte_carlo:`` mapping; raises :class:`ExploreError`."""
+    """Validate a ``monte_carlo:`` mapping; raises :class:`ExploreError`.
+
+    Parameters
+    ----------
+    data : dict
+        The ``monte_carlo:`` mapping as entered. [-]
+    """
     return _load(MonteCarloBlock, data, "monte_carlo")
 
 
 def load_trade_study(data: dict) -> TradeStudyBlock:
-    """Validate a ``trade_study:`` mapping; raises :class:`ExploreError`."""
+    """Validate a ``trade_study:`` mapping; raises :class:`ExploreError`.
+
+    Parameters
+    ----------
+    data : dict
+        The ``trade_study:`` mapping as entered (unit strings kept). [-]
+    """
     return _load(TradeStudyBlock, data, "trade_study")

@@ -19,6 +19,19 @@ from pydantic_core import PydanticCustomError
 from finkit.case.units import format_quantity, to_si
 from finkit.errors import InputError
 
+__all__ = [
+    "SHOW_UNIT",
+    "StrictModel",
+    "Text",
+    "fail",
+    "fail_at",
+    "fail_many",
+    "format_bound",
+    "quantity",
+    "shown",
+    "whole",
+]
+
 #: Unit in which a bound of each kind is printed in an error message.
 SHOW_UNIT = {
     "length": "mm",
@@ -45,27 +58,63 @@ class StrictModel(BaseModel):
 
 
 def fail(message: str) -> PydanticCustomError:
-    """A field's problem, reported as its one-line message."""
+    """A field's problem, reported as its one-line message.
+
+    Parameters
+    ----------
+    message : str
+        The one-line message. [-]
+    """
     return PydanticCustomError("finkit", "{message}", {"message": message})
 
 
 def fail_many(problems: list[tuple[str, str]]) -> PydanticCustomError:
-    """Several problems found by one model check: (field relative to the model, message)."""
+    """Several problems found by one model check: (field relative to the model, message).
+
+    Parameters
+    ----------
+    problems : list of (str, str)
+        (field relative to the model, one-line message) of each problem. [-]
+    """
     return PydanticCustomError("finkit_many", "{problems}", {"problems": json.dumps(problems)})
 
 
 def fail_at(field: str, message: str) -> PydanticCustomError:
-    """One problem of a model check, placed on one of the model's fields."""
+    """One problem of a model check, placed on one of the model's fields.
+
+    Parameters
+    ----------
+    field : str
+        Name of the field, relative to the model. [-]
+    message : str
+        The one-line message. [-]
+    """
     return fail_many([(field, message)])
 
 
 def shown(value) -> str:
-    """A value as the user wrote it, for a message."""
+    """A value as the user wrote it, for a message.
+
+    Parameters
+    ----------
+    value : object
+        The value as written in the case file. [-]
+    """
     return f"'{value}'" if isinstance(value, str) else repr(value)
 
 
 def format_bound(value_si: float, kind: str, unit: str | None = None) -> str:
-    """A quantity in the unit a message shows for its kind (``unit`` overrides)."""
+    """A quantity in the unit a message shows for its kind (``unit`` overrides).
+
+    Parameters
+    ----------
+    value_si : float
+        The quantity in SI (the SI unit of its kind). [SI unit of kind]
+    kind : str
+        Kind of quantity, a key of :data:`SHOW_UNIT`. [-]
+    unit : str, optional
+        Display unit, e.g. ``"mm"``; None: ``SHOW_UNIT[kind]``. [-]
+    """
     return format_quantity(value_si, kind, SHOW_UNIT[kind] if unit is None else unit)
 
 
@@ -88,6 +137,23 @@ def quantity(
     ``gt``/``ge``/``le`` are bounds in SI; ``show`` is the unit used to print a bound. A bare
     number (no unit) above ``bare_max`` [SI] is refused with a hint that it was read in SI and
     probably meant ``hint`` (``fin height: 30 m ... did you mean '30 mm'?``).
+
+    Parameters
+    ----------
+    kind : str
+        Kind of quantity, as in :func:`finkit.case.units.to_si`. [-]
+    gt : float, optional
+        The value must be greater than this. [SI unit of kind]
+    ge : float, optional
+        The value must be at least this. [SI unit of kind]
+    le : float, optional
+        The value must be at most this. [SI unit of kind]
+    show : str, optional
+        Display unit of a bound in a message; None: ``SHOW_UNIT[kind]``. [-]
+    bare_max : float, optional
+        Largest bare number (no unit) accepted; None: no such check. [SI unit of kind]
+    hint : str, optional
+        Unit suggested for a refused bare number, e.g. ``"mm"``. [-]
     """
 
     def limit(bound: float) -> str:
@@ -126,7 +192,15 @@ def quantity(
 
 
 def whole(minimum: int, maximum: int | None = None):
-    """A whole-number field of at least ``minimum`` and at most ``maximum`` (``3.0`` is 3)."""
+    """A whole-number field of at least ``minimum`` and at most ``maximum`` (``3.0`` is 3).
+
+    Parameters
+    ----------
+    minimum : int
+        Smallest value allowed. [-]
+    maximum : int, optional
+        Largest value allowed; None: no upper limit. [-]
+    """
 
     def convert(value):
         ok = isinstance(value, int) and not isinstance(value, bool)

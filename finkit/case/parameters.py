@@ -22,7 +22,11 @@ from typing import Any
 
 from finkit.errors import InputError
 
-__all__ = ["CASE_KEYS", "OVERRIDES", "case_from_parameters"]
+__all__ = [
+    "CASE_KEYS",
+    "OVERRIDES",
+    "case_from_parameters",
+]
 
 #: Quick overrides a template accepts (``papermill -p NAME VALUE``) and the case field each sets.
 OVERRIDES = {

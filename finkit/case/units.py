@@ -46,12 +46,13 @@ import numpy as np
 from finkit.errors import InputError
 
 __all__ = [
+    "BARE_TEMPERATURE_MIN",
     "KINDS",
+    "MAX_TEXT",
     "format_quantity",
     "from_si",
     "to_si",
     "to_si_array",
-    "ureg",  # noqa: F822 - made on first use by the module __getattr__
 ]
 
 #: Longest value text read (a quantity with its unit is a few dozen characters; pint's parser
@@ -427,7 +428,7 @@ def format_quantity(value_si: float, kind: str, unit: str, decimals: int | None 
     Parameters
     ----------
     value_si : float
-        Value in the SI unit of ``kind``. [SI unit of kind]
+        Value in SI (the SI unit of ``kind``). [SI unit of kind]
     kind : str
         As in :func:`to_si`. [-]
     unit : str

@@ -161,6 +161,7 @@ def control_specs(case) -> list[ControlSpec]:
     the case schema rejects (fins that do not fit, pins that touch) is reported by the
     explorer, not prevented by the sliders.
     """
+    # Long by design: a table: one ControlSpec per control the case offers, in display order.
     s = case.sink
     specs: list[ControlSpec] = []
     if s.type == "plate-fin":

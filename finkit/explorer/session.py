@@ -87,9 +87,12 @@ class Explorer(_Drawing):
     )
 
     def __init__(self, case, *, dpi: float = 80.0):
+        # Long by design: builds the widgets and wires their callbacks, one block per group of
+        # controls.
         import ipywidgets as widgets
 
-        from finkit.case.schema import Case, load_case
+        from finkit.case.heat_sink import Case
+        from finkit.case.schema import load_case
 
         validated = case if isinstance(case, Case) else load_case(case)
         if getattr(validated, "kind", None) != "heat-sink":

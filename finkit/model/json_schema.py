@@ -33,7 +33,8 @@ def case_schema() -> dict[str, Any]:
 
     from pydantic import Field, TypeAdapter
 
-    from finkit.case.schema import HeatSinkCase, SingleFinCase
+    from finkit.case.heat_sink import HeatSinkCase
+    from finkit.case.single_fin import SingleFinCase
 
     adapter = TypeAdapter(Annotated[HeatSinkCase | SingleFinCase, Field(discriminator="kind")])
     schema = adapter.json_schema(mode="validation")

@@ -11,7 +11,7 @@ from typing import Any
 
 import numpy as np
 
-from finkit.case.schema import SWEEP_NAMES
+from finkit.case.parts import SWEEP_NAMES
 from finkit.errors import InputError, PropertyRangeError
 from finkit.model.design import (
     SinkInputs,

@@ -391,6 +391,8 @@ def render_note(
     ``note_time`` and ``provenance`` (the dict of :func:`provenance`, also stored in the notebook
     metadata as ``nb.metadata["finkit"]["provenance"]`` and shown in the note's footer).
     """
+    # Long by design: the note's stages in order, each timed by the stage clock and guarded so that
+    # nothing half-written is left.
     clock = _StageClock(stages)
     prepared = prepare_case(case, validate=validate)
     folder = case_folder(out_dir, prepared.case_id)

@@ -131,6 +131,13 @@ def prefetch(previous_source: str | os.PathLike, entered: dict) -> None:
     case the attribution tries; none of it depends on the current case's own results, so
     ``finkit note`` runs it in a second process while it solves the case
     (:func:`cached_solutions`, :func:`add_cached_solutions`).
+
+    Parameters
+    ----------
+    previous_source : str or os.PathLike
+        The previous revision: a case file, a note folder or a results.json. [-]
+    entered : dict
+        The current case as entered (unit strings kept). [-]
     """
     old = load_revision(previous_source)
     compare(old, Revision("prefetch", "case", copy.deepcopy(entered), {}, True))
@@ -142,7 +149,13 @@ def cached_solutions() -> tuple[dict, dict]:
 
 
 def add_cached_solutions(solutions: tuple[dict, dict]) -> None:
-    """Add what :func:`cached_solutions` returned in another process (same finkit)."""
+    """Add what :func:`cached_solutions` returned in another process (same finkit).
+
+    Parameters
+    ----------
+    solutions : (dict, dict)
+        What :func:`cached_solutions` returned: solved case files, governing margins. [-]
+    """
     case_files, margins = solutions
     _CASE_FILES.update(case_files)
     _MARGINS.update(margins)
@@ -150,6 +163,11 @@ def add_cached_solutions(solutions: tuple[dict, dict]) -> None:
 
 def load_revision(source: str | os.PathLike) -> Revision:
     """A revision from a case file, a note folder or a results.json.
+
+    Parameters
+    ----------
+    source : str or os.PathLike
+        A case file (.yaml), a note folder or a results.json. [-]
 
     Raises
     ------
@@ -221,7 +239,13 @@ def _leaves(data: Any, path: tuple = ()) -> dict[tuple, Any]:
 
 
 def path_text(path: tuple) -> str:
-    """``scenarios[0].inlet_temperature_rise`` from its parts."""
+    """``scenarios[0].inlet_temperature_rise`` from its parts.
+
+    Parameters
+    ----------
+    path : tuple
+        The parts of a field path: names (str) and list indices (int). [-]
+    """
     text = ""
     for part in path:
         text += f"[{part}]" if isinstance(part, int) else (f".{part}" if text else str(part))
@@ -478,7 +502,13 @@ def _side(r: Revision) -> dict[str, Any]:
 
 
 def changes_table(comparison: Comparison):
-    """The changed inputs (as entered and in SI) with each one's share of the margin change."""
+    """The changed inputs (as entered and in SI) with each one's share of the margin change.
+
+    Parameters
+    ----------
+    comparison : Comparison
+        From :func:`compare`. [-]
+    """
     from finkit.report import present
 
     alone = dict(comparison.attribution or ())
@@ -510,7 +540,13 @@ def changes_table(comparison: Comparison):
 
 
 def attribution_table(comparison: Comparison):
-    """Each changed input's share of the change of the governing margin."""
+    """Each changed input's share of the change of the governing margin.
+
+    Parameters
+    ----------
+    comparison : Comparison
+        From :func:`compare`, with an attribution. [-]
+    """
     from finkit.report import present
 
     rows = [(name, f"{delta:+.3g}") for name, delta in comparison.attribution or ()]
@@ -574,7 +610,20 @@ def _attribute(old: dict, changes: list[InputChange], new_entered: dict):
 def compare(
     old: str | os.PathLike | Revision, new: str | os.PathLike | Revision, *, attribute: bool = True
 ) -> Comparison:
-    """Compare two revisions of a case (case files, note folders or results.json files)."""
+    """Compare two revisions of a case (case files, note folders or results.json files).
+
+    Parameters
+    ----------
+    old : str, os.PathLike or Revision
+        The earlier revision, or the path of a case file, note folder or results.json. [-]
+    new : str, os.PathLike or Revision
+        The later revision, or the path of a case file, note folder or results.json. [-]
+    attribute : bool, optional
+        Attribute the change of the governing margin to the changed inputs (re-solves
+        the old case with one change at a time). [-]
+    """
+    # Long by design: the comparison's steps in order (both revisions solved, inputs diffed, changes
+    # attributed).
     a = old if isinstance(old, Revision) else load_revision(old)
     b = new if isinstance(new, Revision) else load_revision(new)
     notes = []

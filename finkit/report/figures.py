@@ -143,7 +143,13 @@ def plot_fin_profile(result):
 
 
 def figure_fin_profile(result) -> present.Fragment:
-    """:func:`plot_fin_profile` embedded with its caption."""
+    """:func:`plot_fin_profile` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     from finkit.model.sweeps import is_fin_tip_exposed
 
     tip = (
@@ -249,7 +255,13 @@ def plot_allowable_vs_inlet(result):
 
 
 def figure_allowable_vs_inlet(result) -> present.Fragment:
-    """:func:`plot_allowable_vs_inlet` embedded with its caption."""
+    """:func:`plot_allowable_vs_inlet` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     return present.figure(
         plot_allowable_vs_inlet(result),
         caption=_caption(
@@ -348,7 +360,13 @@ def plot_vs_airflow(result):
 
 
 def figure_vs_airflow(result) -> present.Fragment:
-    """:func:`plot_vs_airflow` embedded with its caption."""
+    """:func:`plot_vs_airflow` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     if _is_natural(result):
         text = (
             "Sensitivity to the heat transfer coefficient: allowable power and fin efficiency "
@@ -464,7 +482,13 @@ def plot_fan_system(result):
 
 
 def figure_fan_system(result) -> present.Fragment:
-    """:func:`plot_fan_system` embedded with its caption (a remark for natural convection)."""
+    """:func:`plot_fan_system` embedded with its caption (a remark for natural convection).
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     if _is_natural(result):
         return present.text("Natural convection: no fan and no system curve.")
     if _is_fan(result):
@@ -555,7 +579,13 @@ def plot_resistance_breakdown(result):
 
 
 def figure_resistance_breakdown(result) -> present.Fragment:
-    """:func:`plot_resistance_breakdown` embedded with its caption."""
+    """:func:`plot_resistance_breakdown` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     return present.figure(
         plot_resistance_breakdown(result),
         caption=_caption(
@@ -672,7 +702,15 @@ def plot_sweep(result, name: str):
 
 
 def figure_sweep(result, name: str) -> present.Fragment:
-    """:func:`plot_sweep` embedded with its caption."""
+    """:func:`plot_sweep` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    name : str
+        A sweep name of ``finkit.model.NOTE_SWEEPS``. [-]
+    """
     label = _SWEEP_AXIS[name][0].split(" [")[0].replace("Inlet air", _air(result, True)).lower()
     extra = ""
     if _is_fan(result) and name in ("fin_count", "fin_height", "fin_thickness", "altitude"):

@@ -101,6 +101,11 @@ def at_governing(result):
 
     Tables and figures of the results section describe the condition the verdict is about;
     a case without scenarios is its own governing condition.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
     """
     from dataclasses import replace
 
@@ -323,6 +328,11 @@ def sweep_names(result) -> list[str]:
 
     ``inlet_temperature`` is the allowable-power figure; ``airflow`` (forced) and
     ``heat_transfer_coefficient`` (natural) are the efficiency figure.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
     """
     drawn = {"inlet_temperature", "heat_transfer_coefficient" if _is_natural(result) else "airflow"}
     return [s for s in getattr(result.case, "sweeps", []) if s not in drawn]

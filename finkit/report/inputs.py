@@ -65,7 +65,8 @@ def run(case: Any, solved: str | None = None):
     finkit.model.CaseResult
         ``finkit.model.run_case(finkit.case.load_case(case))``. [-]
     """
-    from finkit.case.schema import Case, load_case
+    from finkit.case.heat_sink import Case
+    from finkit.case.schema import load_case
 
     validated = case if isinstance(case, Case) else load_case(case)
     if solved:
@@ -205,6 +206,8 @@ def verdict_page(result, note_time: str = "") -> present.Fragment:
     present.Fragment
         The first page. [-]
     """
+    # Long by design: page 1 of the note in reading order (verdict, governing condition, headline
+    # numbers, sign-off block).
     case, tb = result.case, result.case.title_block
     table = result.conditions
     gov = result.governing
@@ -363,6 +366,11 @@ def changes_since(result):
     Solved once per result (the page-1 line and the section share it). A previous revision
     that cannot be read gives a :class:`finkit.errors.FinkitError` instance instead, which the
     note shows as text.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
     """
     previous = getattr(result.case, "previous_revision", None)
     if previous is None:
@@ -395,7 +403,13 @@ def _remember_comparison(result, comparison) -> None:
 
 
 def changes_since_line(result) -> present.Fragment:
-    """One line for page 1: what changed since the previous revision and what it did."""
+    """One line for page 1: what changed since the previous revision and what it did.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     comparison = changes_since(result)
     if comparison is None:
         return present.Fragment("")
@@ -416,7 +430,13 @@ def changes_since_line(result) -> present.Fragment:
 
 
 def changes_since_section(result) -> present.Fragment:
-    """The changes since the previous revision in full (empty without a previous revision)."""
+    """The changes since the previous revision in full (empty without a previous revision).
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case. [-]
+    """
     from finkit.report.compare import changes_table
 
     comparison = changes_since(result)

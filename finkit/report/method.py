@@ -158,6 +158,8 @@ def method_section(result) -> present.Fragment:
     present.Fragment
         Paragraphs, equations (offline SVG) and the reference list. [-]
     """
+    # Long by design: the note's method text in reading order, one paragraph or equation per step;
+    # splitting it would scatter one page of prose over many functions.
     cite = lambda key: _cite(result, key)  # noqa: E731 - local shorthand
     opts = result.inputs.options
     parts: list[Any] = [
@@ -553,6 +555,7 @@ def cautions(result) -> present.Fragment:
     present.Fragment
         A bulleted list, with the hottest surface temperatures of the governing condition. [-]
     """
+    # Long by design: the cautions of a note, one short paragraph each, chosen by the case.
     gov = result.governing
     sol = gov.solution if gov is not None and gov.solution is not None else result.solution
     where = f" in the governing condition '{gov.name}'" if gov is not None else ""

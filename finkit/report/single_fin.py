@@ -219,7 +219,13 @@ def plot_fin_tip_profiles(result):
 
 
 def figure_fin_tip_profiles(result) -> present.Fragment:
-    """:func:`plot_fin_tip_profiles` embedded with its caption (a remark if not available)."""
+    """:func:`plot_fin_tip_profiles` embedded with its caption (a remark if not available).
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved single-fin case. [-]
+    """
     if not _study(result).profiles:
         return present.text("Temperature profiles are drawn for fins of uniform section only.")
     return present.figure(
@@ -322,7 +328,13 @@ def plot_fin_efficiency_vs_length(result):
 
 
 def figure_fin_efficiency_vs_length(result) -> present.Fragment:
-    """:func:`plot_fin_efficiency_vs_length` embedded with its caption."""
+    """:func:`plot_fin_efficiency_vs_length` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved single-fin case of uniform section. [-]
+    """
     return present.figure(
         plot_fin_efficiency_vs_length(result),
         caption=_caption(
@@ -399,7 +411,13 @@ def plot_fin_profiles_study(result):
 
 
 def figure_fin_profiles_study(result) -> present.Fragment:
-    """:func:`plot_fin_profiles_study` embedded with its caption."""
+    """:func:`plot_fin_profiles_study` embedded with its caption.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved single-fin case. [-]
+    """
     from finkit.physics.single_fin import UNIFORM_PROFILES
 
     if result.case.fin.profile not in UNIFORM_PROFILES:
@@ -494,7 +512,13 @@ def fin_method_section(result) -> present.Fragment:
 
 
 def fin_assumptions(result) -> present.Fragment:
-    """Assumptions of a single-fin study, as a list."""
+    """Assumptions of a single-fin study, as a list.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved single-fin case. [-]
+    """
     return _bullets(
         [
             "Steady state; one-dimensional conduction along the fin (uniform temperature over "
@@ -511,7 +535,13 @@ def fin_assumptions(result) -> present.Fragment:
 
 
 def fin_cautions(result) -> present.Fragment:
-    """Cautions of a single-fin study, as a list."""
+    """Cautions of a single-fin study, as a list.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved single-fin case. [-]
+    """
     return _bullets(
         [
             "Touchable hot surfaces: the fin base is at "

@@ -392,7 +392,13 @@ def plot_uncertainty_distribution(result):
 
 
 def figure_uncertainty_distribution(result) -> present.Fragment:
-    """:func:`plot_uncertainty_distribution` with its caption; empty without tolerances."""
+    """:func:`plot_uncertainty_distribution` with its caption; empty without tolerances.
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case, with ``uncertainty`` when it has a ``tolerances`` block. [-]
+    """
     u = _uncertainty_of(result)
     if u is None:
         return present.Fragment("")
@@ -489,7 +495,13 @@ def plot_tornado(result):
 
 
 def figure_tornado(result) -> present.Fragment:
-    """:func:`plot_tornado` with its caption; empty without tolerances (or none of width)."""
+    """:func:`plot_tornado` with its caption; empty without tolerances (or none of width).
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case, with ``uncertainty`` when it has a ``tolerances`` block. [-]
+    """
     u = _uncertainty_of(result)
     if u is None or not u.tornado.bars:
         return present.Fragment("")

@@ -492,7 +492,13 @@ def plot_calibration(result):
 
 
 def figure_calibration(result) -> present.Fragment:
-    """:func:`plot_calibration` embedded with its caption (empty without measurements)."""
+    """:func:`plot_calibration` embedded with its caption (empty without measurements).
+
+    Parameters
+    ----------
+    result : finkit.model.CaseResult
+        A solved heat-sink case (with measurements for a figure). [-]
+    """
     if getattr(_review_of(result), "calibration", None) is None:
         return present.text("")
     return present.figure(

@@ -61,6 +61,7 @@ def plot_front(note: TradeNote, pair: tuple[str, str] | None = None):
         Designs that can be made and meet the limit (coloured), that miss the limit (grey),
         the front (black edge), the chosen design (star) and the case's design (diamond). [-]
     """
+    # Long by design: one figure: axes, front, chosen design, case design, limits and labels.
     study = note.study
     x_name, y_name = pair or note.objectives[:2]
     others = [o for o in note.objectives if o not in (x_name, y_name)]
@@ -169,7 +170,13 @@ def plot_front(note: TradeNote, pair: tuple[str, str] | None = None):
 
 
 def figure_front(note: TradeNote) -> present.Fragment:
-    """Every 2-D projection of the front (:func:`plot_front`), each with its caption."""
+    """Every 2-D projection of the front (:func:`plot_front`), each with its caption.
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     parts = []
     pairs = list(combinations(note.objectives, 2))
     for number, pair in enumerate(pairs, start=1):
@@ -310,7 +317,13 @@ def plot_design_space(note: TradeNote):
 
 
 def figure_design_space(note: TradeNote) -> present.Fragment:
-    """:func:`plot_design_space` embedded with its caption."""
+    """:func:`plot_design_space` embedded with its caption.
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     number = len(list(combinations(note.objectives, 2))) + 1
     what = "fin count and fin height" if note.is_plate else "pin diameter and pitch across the flow"
     caption = (

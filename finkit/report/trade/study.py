@@ -319,8 +319,11 @@ def run(case: Any) -> TradeNote:
     finkit.errors.InputError
         The case has no ``trade_study`` block, or its variables do not match the sink type.
     """
+    # Long by design: the trade study's steps in order (validate, grid or sample, solve, front,
+    # chosen design, results).
     from finkit.case.explore_blocks import to_bounds, to_envelope
-    from finkit.case.schema import Case, load_case
+    from finkit.case.heat_sink import Case
+    from finkit.case.schema import load_case
     from finkit.model import trade
     from finkit.model.run import run_case
 

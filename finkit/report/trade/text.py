@@ -216,7 +216,13 @@ def study_table(note: TradeNote) -> present.Fragment:
 
 
 def method_section(note: TradeNote) -> present.Fragment:
-    """How the designs were evaluated, what the front is and how the design was chosen."""
+    """How the designs were evaluated, what the front is and how the design was chosen.
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     block = note.block
     kept = (
         "Everything else of the case is kept: the heat source and interface, the air "
@@ -277,7 +283,13 @@ def method_section(note: TradeNote) -> present.Fragment:
 
 
 def headline(note: TradeNote) -> present.Fragment:
-    """One paragraph: the chosen design against the case's design, with the limit check."""
+    """One paragraph: the chosen design against the case's design, with the limit check.
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     case = note.case_design
     if note.chosen is None:
         return _join(
@@ -414,7 +426,13 @@ def _change(case_value, chosen, name, is_design) -> str:
 
 
 def feasibility_table(note: TradeNote) -> present.Fragment:
-    """How many designs can be made, meet the limit, lie on the front; why the others fail."""
+    """How many designs can be made, meet the limit, lie on the front; why the others fail.
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     study = note.study
     n = len(study)
     rows = [
@@ -509,7 +527,13 @@ def front_table(note: TradeNote, rows: int = 15) -> present.Fragment:
 
 
 def warnings_section(note: TradeNote) -> present.Fragment:
-    """Validity messages of the chosen design's solution (and of the case's design)."""
+    """Validity messages of the chosen design's solution (and of the case's design).
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     items = []
     for d in (note.chosen, note.case_design):
         if d is None:
@@ -525,7 +549,13 @@ def warnings_section(note: TradeNote) -> present.Fragment:
 
 
 def cautions(note: TradeNote) -> present.Fragment:
-    """What the trade study does not cover."""
+    """What the trade study does not cover.
+
+    Parameters
+    ----------
+    note : TradeNote
+        From :func:`run`. [-]
+    """
     from finkit.report.formatting import _bullets
 
     bypass = note.result.inputs.bypass
