@@ -19,6 +19,13 @@ def uniform_spline_coefficients(x: np.ndarray, y: np.ndarray) -> np.ndarray:
     Returns ``c`` of shape (4, n - 1, ...) with ``S(x) = sum_m c[m] dx**(3 - m)`` on each
     interval (the same spline as ``scipy.interpolate.CubicSpline``, tested). ``y`` may have
     trailing dimensions.
+
+    Parameters
+    ----------
+    x : numpy.ndarray
+        Uniform grid, increasing, at least 4 points [unit of x].
+    y : numpy.ndarray
+        Values at the nodes, first axis along ``x`` [unit of y].
     """
     n, h = x.size, float(x[1] - x[0])
     a = np.zeros((n, n))
@@ -130,7 +137,13 @@ class MonotoneCubic:
         return np.where(outside, np.nan, value)
 
     def slope(self, q) -> np.ndarray:
-        """d y / d x at ``q``; NaN outside the table."""
+        """d y / d x at ``q``; NaN outside the table.
+
+        Parameters
+        ----------
+        q : array_like
+            Where to evaluate the slope [unit of x].
+        """
         q = np.asarray(q, dtype=float)
         k, t, outside = self._interval(q)
         value = self.d[k] + t * (2.0 * self.c2[k] + 3.0 * t * self.c3[k])

@@ -199,7 +199,13 @@ class Tolerance:
         return nominal - w, nominal, nominal + w
 
     def is_degenerate(self, nominal: float) -> bool:
-        """True when the distribution is a single point (zero width)."""
+        """True when the distribution is a single point (zero width).
+
+        Parameters
+        ----------
+        nominal : float
+            The nominal (case) value of the input [SI].
+        """
         a, b, c = self._params(nominal)
         if self.distribution == "normal":
             return b == 0.0
@@ -208,12 +214,24 @@ class Tolerance:
         return a == c
 
     def constant(self, nominal: float) -> float:
-        """The single value of a degenerate tolerance [SI]."""
+        """The single value of a degenerate tolerance [SI].
+
+        Parameters
+        ----------
+        nominal : float
+            The nominal (case) value of the input [SI].
+        """
         a, _, _ = self._params(nominal)
         return a
 
     def mean(self, nominal: float) -> float:
-        """Mean of the distribution [SI]."""
+        """Mean of the distribution [SI].
+
+        Parameters
+        ----------
+        nominal : float
+            The nominal (case) value of the input [SI].
+        """
         a, b, c = self._params(nominal)
         if self.distribution == "normal":
             return a
@@ -225,6 +243,11 @@ class Tolerance:
         """Standard deviation of the (untruncated) parent distribution [SI].
 
         For ``normal`` this is σ before truncation; :meth:`variance` includes the truncation.
+
+        Parameters
+        ----------
+        nominal : float
+            The nominal (case) value of the input [SI].
         """
         a, b, c = self._params(nominal)
         if self.distribution == "normal":
@@ -233,6 +256,11 @@ class Tolerance:
 
     def variance(self, nominal: float) -> float:
         """Variance of the sampled distribution, truncation included [SI²].
+
+        Parameters
+        ----------
+        nominal : float
+            The nominal (case) value of the input [SI].
 
         Notes
         -----
@@ -254,7 +282,13 @@ class Tolerance:
         return (lo * lo + mode * mode + hi * hi - lo * mode - lo * hi - mode * hi) / 18.0
 
     def support(self, nominal: float) -> tuple[float, float]:
-        """Lowest and highest value a sample can take [SI] (±inf for an untruncated normal)."""
+        """Lowest and highest value a sample can take [SI] (±inf for an untruncated normal).
+
+        Parameters
+        ----------
+        nominal : float
+            The nominal (case) value of the input [SI].
+        """
         a, b, c = self._params(nominal)
         if self.distribution == "normal":
             if self.truncation is None:

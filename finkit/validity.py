@@ -43,7 +43,7 @@ def check_range(rng: ValidityRange, value) -> list[str]:
     Parameters
     ----------
     rng : ValidityRange
-        The range to check against.
+        The range to check against [-].
     value : float or array_like
         The quantity's value(s) for the case [unit of the quantity]. NaNs are ignored.
 

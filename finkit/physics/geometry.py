@@ -72,6 +72,15 @@ def fins_fit(base_width, fin_count, fin_thickness):
     The one rule for whether plate fins fit, ``W - N t > 0`` (to a relative tolerance of
     ``_FIT_TOLERANCE`` of W): :class:`PlateFinSink` raises where it is false, and the case file's
     check (:class:`finkit.case.Sink`) names the fields. Arrays broadcast [-].
+
+    Parameters
+    ----------
+    base_width : float or array_like
+        Base width W across the flow [m].
+    fin_count : int or array_like
+        Number of fins N [-].
+    fin_thickness : float or array_like
+        Fin thickness t (uniform) [m].
     """
     w = np.asarray(base_width, dtype=float)
     n = np.asarray(fin_count, dtype=float)
@@ -262,7 +271,13 @@ class PlateFinSink:
         return 4.0 * b * h / (b + 2.0 * h)
 
     def hydraulic_diameter(self, is_shrouded=True):
-        """Channel hydraulic diameter [m], shrouded or open-top (see the two properties)."""
+        """Channel hydraulic diameter [m], shrouded or open-top (see the two properties).
+
+        Parameters
+        ----------
+        is_shrouded : bool or array_like, default True
+            True: shrouded channel (four walls wetted); False: open top [-].
+        """
         return np.where(is_shrouded, self.hydraulic_diameter_shrouded, self.hydraulic_diameter_open)
 
     # -- metal ---------------------------------------------------------------------------------
@@ -276,7 +291,13 @@ class PlateFinSink:
         )
 
     def mass(self, density):
-        """Metal mass [kg] for a solid ``density`` [kg m⁻³]."""
+        """Metal mass [kg] for a solid ``density`` [kg m⁻³].
+
+        Parameters
+        ----------
+        density : float or array_like
+            Density of the sink's metal [kg m⁻³].
+        """
         return self.volume * np.asarray(density, dtype=float)
 
 
@@ -508,5 +529,11 @@ class PinFinSink:
         )
 
     def mass(self, density):
-        """Metal mass [kg] for a solid ``density`` [kg m⁻³]."""
+        """Metal mass [kg] for a solid ``density`` [kg m⁻³].
+
+        Parameters
+        ----------
+        density : float or array_like
+            Density of the sink's metal [kg m⁻³].
+        """
         return self.volume * np.asarray(density, dtype=float)

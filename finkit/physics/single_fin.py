@@ -114,7 +114,16 @@ def _fin_length(fin):
 
 
 def solve_single_fin(case) -> SingleFinStudy:
-    """Compute a single-fin case's headline, tip comparison, profiles and length study."""
+    """Compute a single-fin case's headline, tip comparison, profiles and length study.
+
+    Parameters
+    ----------
+    case : finkit.case.SingleFinCase
+        The validated single-fin case (fin, conditions, optional study and limit; values in
+        SI, temperatures in kelvin) [-].
+    """
+    # Long by design: the single-fin case's outputs in turn (headline, tip comparison, profiles,
+    # length study), all from the same section and h.
     fin, cond = case.fin, case.conditions
     user = case.user_materials()
     material = get_material(fin.material, user or None)

@@ -321,7 +321,8 @@ def parallel_pressure_drop(branches) -> SystemPressureDrop:
     Parameters
     ----------
     branches : callable or sequence of callable
-        ``dp(volume_flow)`` of each branch (e.g. the side gaps and the top gap of a bypass).
+        ``dp(volume_flow)`` of each branch (e.g. the side gaps and the top gap of a bypass)
+        [Pa].
 
     Returns
     -------
@@ -629,7 +630,7 @@ def operating_point_with_bypass(
     Parameters
     ----------
     fan : FanCurve
-        The fan (or combination), rated at ``fan.rating_density``.
+        The fan (or combination), rated at ``fan.rating_density`` [-].
     sink_pressure_drop : callable
         ``dp(volume_flow)`` of the finned region [Pa].
     bypass_pressure_drop : callable or sequence of callable
@@ -643,7 +644,7 @@ def operating_point_with_bypass(
     pressure_factor : float or array_like, default 1.0
         Multiplier on the fan's pressure (ageing, tolerance), per design [-].
     raise_on_failure : bool, default False
-        Raise :class:`~finkit.errors.SolverError` when a design has no operating point.
+        Raise :class:`~finkit.errors.SolverError` when a design has no operating point [-].
     maxiter : int, default 100
         Iteration limit of each solver level [-].
 

@@ -75,7 +75,13 @@ class FanTableProblem(NamedTuple):
     value: float
 
     def text(self, prefix: str = "") -> str:
-        """One line naming the argument, the point and the rule (``prefix`` before the name)."""
+        """One line naming the argument, the point and the rule (``prefix`` before the name).
+
+        Parameters
+        ----------
+        prefix : str, default ""
+            Text put before the argument's name, e.g. ``"FanCurve."``. [-]
+        """
         where = f"{prefix}{self.argument}" + ("" if self.index is None else f"[{self.index}]")
         unit = " m³/s" if self.argument == "volume_flow" else " Pa"
         return f"{where}{_FAN_RULE_TEXT[self.rule].format(value=self.value, unit=unit)}"
@@ -347,7 +353,13 @@ class FanCurve:
         return (self._slope(q) * self.density_ratio(density))[()]
 
     def is_in_stall_region(self, volume_flow):
-        """True where the curve rises with flow (positive slope) at ``volume_flow`` [m³ s⁻¹]."""
+        """True where the curve rises with flow (positive slope) at ``volume_flow``.
+
+        Parameters
+        ----------
+        volume_flow : float or array_like
+            Volume flow through the fan (or the combination) [m³ s⁻¹].
+        """
         with np.errstate(invalid="ignore"):
             return (np.asarray(self._slope(np.asarray(volume_flow, dtype=float))) > 0)[()]
 
@@ -397,7 +409,7 @@ class FanCurve:
         count : int
             Number of identical fans [-], >= 1.
         arrangement : {"parallel", "series"}
-            Parallel: flows add at equal pressure; series: pressures add at equal flow.
+            Parallel: flows add at equal pressure; series: pressures add at equal flow [-].
         """
         n = _check_count("count", count, 1)
         _check_arrangement(arrangement)
@@ -424,7 +436,7 @@ class FanCurve:
         count_failed : int
             Fans stopped [-], 0 <= count_failed < count_total.
         arrangement : {"parallel", "series"}
-            How the fans are installed.
+            How the fans are installed [-].
         stopped_fan_resistance : float, optional
             Flow resistance of one stopped fan, ``dp = R Q²`` at the rating density
             [Pa s² m⁻⁶]. None (default) ignores it: in parallel the stopped fans are taken

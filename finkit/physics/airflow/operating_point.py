@@ -117,18 +117,18 @@ def operating_point(
     Parameters
     ----------
     fan : FanCurve
-        The fan (or combination of fans), rated at ``fan.rating_density``.
+        The fan (or combination of fans), rated at ``fan.rating_density`` [-].
     system_pressure_drop : callable
         ``dp(volume_flow) -> pressure_drop``: system pressure drop [Pa] at a volume flow
         [m³ s⁻¹], >= 0 and increasing with flow; ``volume_flow`` is passed as a scalar or as an
         array of the batch shape, and the shape of the result defines the batch of designs.
-        It must use the same air density as ``density``.
+        It must be computed for the same air as the fan, at ``density``.
     density : float or array_like, optional
         Air density at the fan [kg m⁻³], broadcast with the batch; the fan pressure is scaled by
         ``density / fan.rating_density``. None: the rating density.
     raise_on_failure : bool, default False
         Raise :class:`~finkit.errors.SolverError` if any design has no converged operating
-        point (use for a single design); otherwise such designs get NaN and a False flag.
+        point (use for a single design); otherwise such designs get NaN and a False flag [-].
     maxiter : int, default 100
         Iteration limit of the bracketed solver [-].
 

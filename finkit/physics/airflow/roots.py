@@ -72,7 +72,7 @@ def bracketed_root(
     lower, upper : array_like
         Bracket ends, broadcast to the batch shape [unit of the unknown].
     lower_value, upper_value : array_like, optional
-        ``fun`` at the bracket ends if already known (saves two calls).
+        ``fun`` at the bracket ends if already known (saves two calls) [unit of the function].
     xatol, xrtol : float
         Stop where the bracket is narrower than ``xatol + xrtol |x|``
         [unit of the unknown], [-].

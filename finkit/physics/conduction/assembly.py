@@ -27,6 +27,8 @@ from finkit.physics.conduction.mesh import (
 
 def _solve_quarter(d: _Design, m: _Mesh, solver: str):
     """Assemble and solve the quarter model for the excess temperature per watt of source."""
+    # Long by design: one sparse system assembled face type by face type (conduction, convective
+    # faces, base top, source) and solved; the index arrays are shared by every block.
     dx, dy, dz = np.diff(m.xe), np.diff(m.ye), np.diff(m.ze)
     nx, ny, nz = dx.size, dy.size, dz.size
     in_base = np.arange(nz) < m.nzb

@@ -204,6 +204,8 @@ def solve_fin(
     .. [2] Incropera, F.P., DeWitt, D.P., Bergman, T.L., Lavine, A.S., "Fundamentals of Heat and
        Mass Transfer", 6th ed., Wiley, 2007, section 3.6.
     """
+    # Long by design: the fin BVP in order (checks, right-hand side and boundary conditions, initial
+    # guess, solve, surface integrals, result); the closures share the problem's arrays.
     if not isinstance(tip, str) or tip not in NUMERIC_TIP_CONDITIONS:
         raise InputError(
             f"tip = {tip!r} is not allowed; use one of: {', '.join(NUMERIC_TIP_CONDITIONS)}"

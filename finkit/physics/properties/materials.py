@@ -147,9 +147,9 @@ class Material:
         Parameters
         ----------
         source : str
-            Where the new values come from, e.g. ``"case file, supplier datasheet rev. C"``.
+            Where the new values come from, e.g. ``"case file, supplier datasheet rev. C"`` [-].
         name : str, optional
-            New human-readable name.
+            New human-readable name [-].
         thermal_conductivity : float, optional
             New conductivity [W m⁻¹ K⁻¹].
         density : float, optional
@@ -433,7 +433,7 @@ def list_materials(user_materials: Mapping | None = None) -> tuple[str, ...]:
     Parameters
     ----------
     user_materials : Mapping[str, Material or Mapping], optional
-        Extra materials by key, as for :func:`get_material`.
+        Extra materials by key, as for :func:`get_material` [-].
 
     Returns
     -------
@@ -518,7 +518,7 @@ def get_material(key: str, user_materials: Mapping | None = None) -> Material:
     Parameters
     ----------
     key : str
-        Material key, e.g. ``"aluminium-6063-t5"`` (see :func:`list_materials`).
+        Material key, e.g. ``"aluminium-6063-t5"`` (see :func:`list_materials`) [-].
     user_materials : Mapping[str, Material or Mapping], optional
         Materials by key. A :class:`Material` replaces a built-in entry of the same key
         whole. A plain mapping (the case-file form: ``name``, ``thermal_conductivity``
@@ -558,9 +558,9 @@ def material_emissivity(material: Material | str, finish: str) -> float:
     Parameters
     ----------
     material : Material or str
-        A material, or the key of a built-in material.
+        A material, or the key of a built-in material [-].
     finish : str
-        One of the material's finishes (a subset of :data:`FINISHES`).
+        One of the material's finishes (a subset of :data:`FINISHES`) [-].
 
     Returns
     -------

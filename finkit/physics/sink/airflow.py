@@ -142,6 +142,23 @@ def sink_pressure_drop(
 
     Plate fins: developing-flow apparent friction plus contraction and expansion losses;
     pin fins: the tube-bank pressure-drop method of :mod:`finkit.physics.correlations.forced`.
+
+    Parameters
+    ----------
+    geometry : PlateFinSink or PinFinSink
+        The sink (fields may be arrays for a sweep over designs) [-].
+    volume_flow : float or array_like
+        Volume flow through the finned region, without the bypass [m³ s⁻¹].
+    density : float or array_like
+        Air density [kg m⁻³].
+    dynamic_viscosity : float or array_like
+        Air dynamic viscosity [Pa s].
+    is_shrouded : bool or array_like, default True
+        True: a duct wall touches the fin tips (four wetted walls); False: open top (three);
+        used for plate fins only [-].
+    options : ModelOptions, optional
+        Model choices: ``loss_model``, ``pin_bank_method``, ``deposit_thickness`` and the
+        ``pressure_drop_factor`` applied to the result [-].
     """
     if isinstance(geometry, PlateFinSink):
         flow = forced.plate_fin_channel_flow(
@@ -204,6 +221,20 @@ def solve_airflow(
     the same pressure difference (docs/methods.md h). With a fan, the fan curve, scaled to the inlet
     density and by ``options.fan_pressure_factor``, is crossed with that combined system curve
     plus any extra series loss.
+
+    Parameters
+    ----------
+    geometry : PlateFinSink or PinFinSink
+        The sink (fields may be arrays for a sweep over designs) [-].
+    flow : GivenVelocity, GivenVolumeFlow or FanDriven
+        How the flow is set (velocity, volume flow or fan); :class:`NaturalConvection` raises
+        :class:`InputError` [-].
+    air : Air
+        Inlet air temperature [K] and pressure [Pa]; the air properties are taken at the inlet.
+    bypass : Bypass, optional
+        Duct clearance round the sink; None = fully shrouded, no bypass [-].
+    options : ModelOptions, optional
+        Model choices, pressure-drop and fan-pressure factors, extra series loss [-].
     """
     inlet = air_properties(air.inlet_temperature, air.pressure)
     rho, mu = inlet.density, inlet.dynamic_viscosity

@@ -277,6 +277,17 @@ def base_spreading(geometry, material, source: HeatSource, sink_resistance):
     The equal-area-disc closed form of Song, Lee & Au (docs/methods.md i1) is not used here: it is
     up to 18 % low for small sources on long plates (5 x 5 mm on 200 x 100 mm), beyond the
     2 % allowed for a replacement of the series.
+
+    Parameters
+    ----------
+    geometry : PlateFinSink or PinFinSink
+        The sink; its base length, width and thickness are used [-].
+    material : SinkMaterial
+        Sink metal; its thermal conductivity [W m⁻¹ K⁻¹] is used.
+    source : HeatSource
+        The device; its footprint length and width [m] are used.
+    sink_resistance : float or array_like
+        Resistance from the finned face of the base to the air (fins and exposed base) [K W⁻¹].
     """
     plate_area = np.multiply(geometry.base_width, geometry.base_length)
     return spreading_resistance_rectangular_series(
@@ -312,6 +323,8 @@ def _assemble(
     reynolds,
     warnings,
 ):
+    # Long by design: the thermal chain node by node from the air to the junction, every node an
+    # array of the batch.
     power = np.asarray(power, float)
     t_in = np.asarray(air.inlet_temperature, float)
     base = t_in + power * sink_resistance

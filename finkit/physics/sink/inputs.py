@@ -248,7 +248,13 @@ class ModelOptions:
             raise InputError(f"deposit_thickness: got {self.deposit_thickness!r} m; must be >= 0")
 
     def effective_heat_transfer_coefficient(self, heat_transfer_coefficient):
-        """h after any hand override, the calibration factor and the fouling layer [W m⁻² K⁻¹]."""
+        """h after any hand override, the calibration factor and the fouling layer [W m⁻² K⁻¹].
+
+        Parameters
+        ----------
+        heat_transfer_coefficient : float or array_like
+            Air-side heat transfer coefficient from the correlations [W m⁻² K⁻¹].
+        """
         h = np.asarray(heat_transfer_coefficient, float)
         if self.heat_transfer_coefficient_override is not None:
             h = np.asarray(self.heat_transfer_coefficient_override, float) + 0.0 * h

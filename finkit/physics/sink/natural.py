@@ -162,6 +162,8 @@ def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperatu
 
 
 def _solve_natural(geometry, material, source, air, flow, options, *, power=None, limit=None):
+    # Long by design: the broadcast shape of every input, the base-excess root (power given or limit
+    # given) and the solution's nodes, which share the residual's closures.
     natural.natural_orientation_check(flow.orientation)
     if not isinstance(geometry, PlateFinSink):
         raise InputError(

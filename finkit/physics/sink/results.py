@@ -70,7 +70,13 @@ class SinkSolution:
     warnings: tuple[str, ...] = field(default=())
 
     def node_temperature(self, node: str) -> np.ndarray:
-        """Temperature of a limit node (``junction``, ``case`` or ``base``) [K]."""
+        """Temperature of a limit node (``junction``, ``case`` or ``base``) [K].
+
+        Parameters
+        ----------
+        node : {"junction", "case", "base"}
+            The node [-].
+        """
         _check_node(node)
         return {
             "junction": self.junction_temperature,
@@ -123,7 +129,21 @@ def _property_range_context():
 def solve_case_airflow(geometry, flow, air, bypass=None, options=DEFAULT_OPTIONS):
     """:func:`solve_airflow` with the solvers' one-line message when the air leaves the
     property table; the result can be passed to :func:`solve_temperatures` and
-    :func:`solve_allowable_power` as ``airflow`` (it does not depend on the power)."""
+    :func:`solve_allowable_power` as ``airflow`` (it does not depend on the power).
+
+    Parameters
+    ----------
+    geometry : PlateFinSink or PinFinSink
+        The sink (fields may be arrays for a sweep over designs) [-].
+    flow : GivenVelocity, GivenVolumeFlow or FanDriven
+        How the flow is set (velocity, volume flow or fan) [-].
+    air : Air
+        Inlet air temperature [K] and pressure [Pa].
+    bypass : Bypass, optional
+        Duct clearance round the sink; None = fully shrouded, no bypass [-].
+    options : ModelOptions, optional
+        Model choices, pressure-drop and fan-pressure factors, extra series loss [-].
+    """
     with _property_range_context():
         return solve_airflow(geometry, flow, air, bypass, options)
 

@@ -57,7 +57,7 @@ def solve_temperatures(
     Parameters
     ----------
     geometry : PlateFinSink or PinFinSink
-        The sink (fields may be arrays for a sweep over designs).
+        The sink (fields may be arrays for a sweep over designs) [-].
     material : SinkMaterial
         Sink conductivity [W m⁻¹ K⁻¹] and emissivity [-].
     source : HeatSource
@@ -65,14 +65,14 @@ def solve_temperatures(
     air : Air
         Inlet air temperature [K] and pressure [Pa].
     flow : GivenVelocity, GivenVolumeFlow, FanDriven or NaturalConvection
-        How the air moves.
+        How the air moves [-].
     bypass : Bypass, optional
-        Duct clearance round the sink (forced convection only); None = fully shrouded.
+        Duct clearance round the sink (forced convection only); None = fully shrouded [-].
     options : ModelOptions, optional
-        Model choices, calibration and fouling allowances.
+        Model choices, calibration and fouling allowances [-].
     airflow : optional
         :func:`solve_airflow` of these same inputs, to reuse (forced convection); solved here
-        when not given. No result is remembered between calls.
+        when not given. No result is remembered between calls [-].
 
     Returns
     -------
@@ -118,6 +118,30 @@ def solve_allowable_power(
     Air heating and the film-temperature property feedback are included. Where the inlet air
     is already at or above the limit, the allowable power is zero. ``airflow``: as in
     :func:`solve_temperatures`.
+
+    Parameters
+    ----------
+    geometry : PlateFinSink or PinFinSink
+        The sink (fields may be arrays for a sweep over designs) [-].
+    material : SinkMaterial
+        Sink conductivity [W m⁻¹ K⁻¹] and emissivity [-].
+    source : HeatSource
+        Footprint [m], RθJC and interface resistance [K W⁻¹]; its power is ignored.
+    air : Air
+        Inlet air temperature [K] and pressure [Pa].
+    flow : GivenVelocity, GivenVolumeFlow, FanDriven or NaturalConvection
+        How the air moves [-].
+    limit_node : {"junction", "case", "base"}
+        The node whose temperature is limited [-].
+    limit_temperature : float or array_like
+        Allowed temperature of ``limit_node`` [K].
+    bypass : Bypass, optional
+        Duct clearance round the sink (forced convection only); None = fully shrouded [-].
+    options : ModelOptions, optional
+        Model choices, calibration and fouling allowances [-].
+    airflow : optional
+        :func:`solve_airflow` of these same inputs, to reuse (forced convection); solved here
+        when not given [-].
     """
     _check_node(limit_node)
     limit = (limit_node, np.asarray(limit_temperature, float))

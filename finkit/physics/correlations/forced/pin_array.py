@@ -214,7 +214,7 @@ def nusselt_pin_bank_zukauskas(
         ``(Pr/Pr_s)^(1/4)`` (it is within 1 % of 1 for air) [-].
     join_branches : bool, optional
         True (default): the published branches are joined continuously, on the lower side
-        (see Notes). False: the table as published, with its steps.
+        (see Notes). False: the table as published, with its steps [-].
 
     Returns
     -------
@@ -293,6 +293,15 @@ def pin_bank_void_fraction(pin_diameter, transverse_pitch, longitudinal_pitch):
 
     ``psi = 1 - pi/(4a)`` for ``b >= 1``, ``1 - pi/(4ab)`` for ``b < 1``, with
     ``a = S_T/D``, ``b = S_L/D`` (VDI Heat Atlas ch. G7).
+
+    Parameters
+    ----------
+    pin_diameter : float or array_like
+        Pin diameter D [m].
+    transverse_pitch : float or array_like
+        Transverse pitch S_T [m].
+    longitudinal_pitch : float or array_like
+        Longitudinal pitch S_L [m].
     """
     a = _as_float(transverse_pitch) / _as_float(pin_diameter)
     b = _as_float(longitudinal_pitch) / _as_float(pin_diameter)

@@ -510,6 +510,8 @@ def plate_fin_channel_flow(
     GeometryError
         Fins that do not fit (``b <= 0``).
     """
+    # Long by design: one channel's heat transfer and pressure drop together, sharing the Reynolds
+    # number, the regime masks and the validity flags.
     _check_choice("method", method, PLATE_CHANNEL_METHODS)
     _check_choice("loss_model", loss_model, LOSS_MODELS)
     q_vol = _as_float(volume_flow)
