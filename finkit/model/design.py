@@ -81,7 +81,13 @@ def _material(case, key, finish, emissivity=None):
 
 
 def sink_inputs(case) -> SinkInputs:
-    """Physics inputs of a heat-sink case (SI), ready for :mod:`finkit.physics.sink`."""
+    """Physics inputs of a heat-sink case (SI), ready for :mod:`finkit.physics.sink`.
+
+    Parameters
+    ----------
+    case : finkit.case.HeatSinkCase
+        The validated case. [-]
+    """
     s = case.sink
     material, eps = _material(case, s.material, s.finish, s.emissivity)
     if s.type == "plate-fin":
@@ -147,7 +153,13 @@ def sink_inputs(case) -> SinkInputs:
 
 
 def fan_curve(fan) -> FanCurve:
-    """The (combined, scaled) fan curve of a case's ``air.flow.fan`` block."""
+    """The (combined, scaled) fan curve of a case's ``air.flow.fan`` block.
+
+    Parameters
+    ----------
+    fan : finkit.case.Fan
+        The validated fan block (table in SI, count, arrangement, pressure factor). [-]
+    """
     # The case's checks (finkit.case.Fan) apply the fan curve's own table rules, so a
     # validated case builds its curve.
     curve = FanCurve(
@@ -184,7 +196,14 @@ def _c(kelvin):
 def solve(inputs: SinkInputs, *, airflow=None, **replacements) -> SinkSolution:
     """Temperatures at the stated power; ``replacements`` swap whole input objects.
 
-    ``airflow``: :func:`airflow_of` the same inputs, to share between solves.
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at one condition. [-]
+    airflow : object, optional
+        :func:`airflow_of` the same inputs, to share between solves. [-]
+    **replacements
+        Fields of :class:`SinkInputs` replaced for this solve (whole objects). [-]
     """
     i = replace(inputs, **replacements) if replacements else inputs
     return solve_temperatures(
@@ -195,7 +214,19 @@ def solve(inputs: SinkInputs, *, airflow=None, **replacements) -> SinkSolution:
 def allowable(
     inputs: SinkInputs, margin: float | None = None, *, airflow=None, **replacements
 ) -> SinkSolution:
-    """State at the allowable power: limit node at the limit less ``margin`` [K]."""
+    """State at the allowable power: limit node at the limit less ``margin`` [K].
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at one condition. [-]
+    margin : float, optional
+        Margin below the limit; default the case's required margin. [K]
+    airflow : object, optional
+        :func:`airflow_of` the same inputs, to share between solves. [-]
+    **replacements
+        Fields of :class:`SinkInputs` replaced for this solve (whole objects). [-]
+    """
     i = replace(inputs, **replacements) if replacements else inputs
     margin = i.required_margin if margin is None else margin
     return solve_allowable_power(
@@ -214,7 +245,13 @@ def allowable(
 
 def airflow_of(inputs: SinkInputs):
     """The airflow of a case (forced convection; None in still air), solved once so that the
-    two design questions asked of the same inputs share it (it does not depend on power)."""
+    two design questions asked of the same inputs share it (it does not depend on power).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at one condition. [-]
+    """
     from finkit.physics.sink.results import solve_case_airflow
 
     if isinstance(inputs.flow, NaturalConvection):
@@ -254,6 +291,11 @@ def solve_condition(inputs: SinkInputs) -> ConditionState:
 
     The one place where a condition's results are computed; the nominal case and every scenario
     go through it (:func:`finkit.model.review.run_scenarios`).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at the condition. [-]
     """
     airflow = airflow_of(inputs)  # shared by the three solves below
     sol = solve(inputs, airflow=airflow)

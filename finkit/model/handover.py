@@ -31,6 +31,17 @@ def write_solved(path: Path, validated: Any, result: Any, **extra: Any) -> Path:
     the case's input hash and the finkit version, and lives in the note's scratch folder, which
     is removed with the run. ``extra`` items (e.g. the comparison with the previous revision,
     which solves that revision) travel with it.
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        File to write (in the note's scratch folder). [-]
+    validated : finkit.case.Case
+        The validated case; its input hash keys the file. [-]
+    result : finkit.model.CaseResult
+        The solution. [-]
+    **extra
+        Further items stored with it. [-]
     """
     from finkit import __version__
     from finkit.case.schema import case_inputs_sha256
@@ -57,6 +68,13 @@ def read_solved(path: str | os.PathLike | None, validated: Any) -> dict | None:
     None when no path is given, the file is missing (a note re-run by hand after its scratch
     folder is gone), unreadable, written by another finkit version or for other inputs: the
     caller then solves the case itself. Never a partly matching result.
+
+    Parameters
+    ----------
+    path : str, path-like or None
+        The file :func:`write_solved` wrote, if any. [-]
+    validated : finkit.case.Case
+        The case the kernel was given; the file must be for these very inputs. [-]
     """
     if not path:
         return None

@@ -52,6 +52,8 @@ def case_schema() -> dict[str, Any]:
 
 def results_schema() -> dict[str, Any]:
     """The JSON Schema of ``results.json`` (``schema_version`` 2)."""
+    # Long by design: the JSON Schema of results.json written out as literal structures (condition,
+    # governing, the whole), the way a reader of the schema sees it.
     from finkit.model.results import RESULTS_SCHEMA_VERSION
 
     condition = {

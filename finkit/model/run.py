@@ -79,7 +79,13 @@ def _named_geometry(case, exc: PropertyRangeError) -> PropertyRangeError:
 
 
 def run_case(case) -> CaseResult:
-    """Solve a validated case at every operating condition and check it against its limit."""
+    """Solve a validated case at every operating condition and check it against its limit.
+
+    Parameters
+    ----------
+    case : finkit.case.Case
+        The validated case (heat sink or single fin). [-]
+    """
     if getattr(case, "kind", "heat-sink") == "single-fin":
         return _run_single_fin(case)
     inputs, scenarios, calibration, table = _scenario_table(case)
@@ -128,7 +134,13 @@ def _scenario_table(case, *, fit_unapplied: bool = True):
 def governing_results(case) -> dict[str, Any]:
     """The results at the governing condition, as ``run_case(case).results``, without the
     review, uncertainty and model-form work a note shows, nor a calibration fit the case does
-    not apply: what a revision comparison needs for each trial case it solves."""
+    not apply: what a revision comparison needs for each trial case it solves.
+
+    Parameters
+    ----------
+    case : finkit.case.HeatSinkCase
+        The validated case. [-]
+    """
     if getattr(case, "kind", "heat-sink") == "single-fin":
         return dict(run_case(case).results)
     return dict(_scenario_table(case, fit_unapplied=False)[3].governing_row.results)

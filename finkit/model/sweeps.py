@@ -64,6 +64,15 @@ def swept_inputs(inputs: SinkInputs, name: str, values) -> SinkInputs:
     surface gets that h instead of the correlations (``ModelOptions.
     heat_transfer_coefficient_override``), a sensitivity to the correlation. ``fin_height`` of a
     pin-fin sink is the pin height; ``fin_count`` and ``fin_thickness`` apply to plate fins.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at one condition. [-]
+    name : str
+        The swept quantity, one of :data:`SWEEPABLE`. [-]
+    values : array_like
+        Values of the swept quantity in SI, as for :func:`sweep`. [SI]
     """
     values = np.asarray(values, float)
     g = inputs.geometry
@@ -159,7 +168,13 @@ NOTE_SWEEPS = SWEEPABLE
 def note_inlet_range(inputs: SinkInputs) -> np.ndarray:
     """Inlet air temperatures [K] a note plots the allowable power over: from 25 K below the
     inlet (or 30 K below the usable limit) up to the limit itself (beyond it no power is
-    allowable and the curve says nothing)."""
+    allowable and the curve says nothing).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at the plotted condition. [-]
+    """
     t_in = float(np.max(inputs.air.inlet_temperature))
     usable = inputs.limit_temperature - inputs.required_margin
     low = min(t_in - 25.0, usable - 30.0)
@@ -168,13 +183,25 @@ def note_inlet_range(inputs: SinkInputs) -> np.ndarray:
 
 
 def note_airflow_range(solution: SinkSolution) -> np.ndarray:
-    """Total volume flows [m³ s⁻¹] a note plots: 1/4 to 2.5 times the operating flow."""
+    """Total volume flows [m³ s⁻¹] a note plots: 1/4 to 2.5 times the operating flow.
+
+    Parameters
+    ----------
+    solution : SinkSolution
+        The solved state at the plotted condition. [-]
+    """
     q0 = float(np.max(solution.volume_flow))
     return np.geomspace(q0 / 4.0, q0 * 2.5, 45)
 
 
 def note_h_range(solution: SinkSolution) -> np.ndarray:
-    """Heat transfer coefficients [W m⁻² K⁻¹] a note plots: 1/2 to 2 times the solved h."""
+    """Heat transfer coefficients [W m⁻² K⁻¹] a note plots: 1/2 to 2 times the solved h.
+
+    Parameters
+    ----------
+    solution : SinkSolution
+        The solved state at the plotted condition. [-]
+    """
     h0 = float(np.max(solution.heat_transfer_coefficient))
     return np.geomspace(h0 / 2.0, h0 * 2.0, 41)
 
@@ -250,7 +277,17 @@ def note_sweep_values(
 
 
 def sweep_notes(case, inputs: SinkInputs, solution: SinkSolution) -> list[str]:
-    """Clipping notes of the sweeps a case declares (see :func:`note_sweep_values`)."""
+    """Clipping notes of the sweeps a case declares (see :func:`note_sweep_values`).
+
+    Parameters
+    ----------
+    case : finkit.case.HeatSinkCase
+        The validated case (its ``sweeps`` list). [-]
+    inputs : SinkInputs
+        The design at the plotted condition. [-]
+    solution : SinkSolution
+        Its solved state. [-]
+    """
     notes = []
     for name in getattr(case, "sweeps", []) or []:
         note = note_sweep_values(inputs, solution, float(case.air.altitude), name)[2]
@@ -263,8 +300,12 @@ def is_fin_tip_exposed(inputs: SinkInputs) -> bool:
     """True where the fin tips see the air: natural convection, or a bypass gap above the tips.
 
     Same rule as :mod:`finkit.physics.sink`: a shroud on the tips (no top gap) makes the tip
-    adiabatic
-    on the real length; an exposed tip uses the corrected length ``L + A_c/P``.
+    adiabatic on the real length; an exposed tip uses the corrected length ``L + A_c/P``.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at one condition. [-]
     """
     if isinstance(inputs.flow, NaturalConvection):
         return True
@@ -435,6 +476,15 @@ def note_sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
     again where it fails, down to single points, so that the points that fail are NaN (a gap
     in the curve) instead of losing the figure, at the cost of a few calls rather than one per
     point. If every point fails, the error of the first is raised.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The design at the plotted condition. [-]
+    name : str
+        The swept quantity, one of :data:`SWEEPABLE`. [-]
+    values : array_like
+        Values of the swept quantity in SI, as for :func:`sweep`. [SI]
     """
     values = np.asarray(values, float)
     try:

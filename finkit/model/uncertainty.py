@@ -119,7 +119,15 @@ def _check_tolerances(inputs: SinkInputs, tolerances: Mapping[str, Tolerance]) -
 
 
 def nominal_value(inputs: SinkInputs, name: str) -> float:
-    """Nominal (case) value of a tolerance input [SI]; factors are relative to the case (1.0)."""
+    """Nominal (case) value of a tolerance input [SI]; factors are relative to the case (1.0).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The deterministic case. [-]
+    name : str
+        One of :data:`TOLERANCE_INPUTS`. [-]
+    """
     o, s = inputs.options, inputs.source
     values = {
         "heat_transfer": lambda: o.heat_transfer_factor,
@@ -266,16 +274,36 @@ class MonteCarloResult:
         return float(getattr(self.nominal, quantity))
 
     def percentile(self, q, quantity: str = "limit_node_temperature"):
-        """Percentile(s) ``q`` [%] of a quantity over the samples [unit of the quantity]."""
+        """Percentile(s) ``q`` [%] of a quantity over the samples [unit of the quantity].
+
+        Parameters
+        ----------
+        q : float or array_like
+            Percentile(s), 0 to 100. [%]
+        quantity : str, optional
+            One of :attr:`QUANTITIES`. [-]
+        """
         return _percentile(self._values(quantity), q)
 
     def percentiles(self, quantity: str = "limit_node_temperature") -> dict[float, float]:
-        """The :data:`PERCENTILES` of a quantity, as {percent: value}."""
+        """The :data:`PERCENTILES` of a quantity, as {percent: value}.
+
+        Parameters
+        ----------
+        quantity : str, optional
+            One of :attr:`QUANTITIES`. [-]
+        """
         values = self.percentile(PERCENTILES, quantity)
         return {p: float(v) for p, v in zip(PERCENTILES, values, strict=True)}
 
     def mean(self, quantity: str = "limit_node_temperature") -> float:
-        """Sample mean, summed about the nominal value (exact when nothing varies)."""
+        """Sample mean, summed about the nominal value (exact when nothing varies).
+
+        Parameters
+        ----------
+        quantity : str, optional
+            One of :attr:`QUANTITIES`. [-]
+        """
         x = self._values(quantity)
         ref = self._nominal(quantity)
         if not np.isfinite(ref):
@@ -283,7 +311,13 @@ class MonteCarloResult:
         return ref + float(np.mean(x - ref))
 
     def std(self, quantity: str = "limit_node_temperature") -> float:
-        """Sample standard deviation (n - 1 in the denominator) [unit of the quantity]."""
+        """Sample standard deviation (n - 1 in the denominator) [unit of the quantity].
+
+        Parameters
+        ----------
+        quantity : str, optional
+            One of :attr:`QUANTITIES`. [-]
+        """
         x = self._values(quantity)
         if x.size < 2:
             return 0.0
@@ -292,7 +326,16 @@ class MonteCarloResult:
         return float(np.sqrt(np.sum((d - np.mean(d)) ** 2) / (x.size - 1)))
 
     def probability_exceeding(self, temperature, quantity: str = "limit_node_temperature"):
-        """Fraction of samples strictly above ``temperature`` [-]."""
+        """Fraction of samples strictly above ``temperature`` [-].
+
+        Parameters
+        ----------
+        temperature : float
+            Threshold, in the unit of ``quantity`` (Pa or m³ s⁻¹ for ``pressure_drop`` or
+            ``volume_flow``; a temperature otherwise). [K]
+        quantity : str, optional
+            One of :attr:`QUANTITIES`. [-]
+        """
         return float(np.mean(self._values(quantity) > temperature))
 
     @property
@@ -312,6 +355,13 @@ class MonteCarloResult:
         ``Beta.ppf(confidence, k + 1, n - k)``; with no exceedance it is close to the
         "rule of three" ``3/n`` at 95 %. It states how small a probability the sample count
         can show.
+
+        Parameters
+        ----------
+        temperature : float
+            Threshold on the limit-node temperature. [K]
+        confidence : float, optional
+            One-sided confidence level, in (0, 1). [-]
 
         References
         ----------
@@ -396,7 +446,7 @@ def monte_carlo(
         The deterministic case (:func:`finkit.model.sink_inputs`); its input values are the
         nominal values [SI].
     tolerances : mapping of str to Tolerance
-        Tolerance per input name of :data:`TOLERANCE_INPUTS`; inputs not named stay nominal.
+        Tolerance per input name of :data:`TOLERANCE_INPUTS`; inputs not named stay nominal. [-]
     samples : int
         Number of samples [-].
     seed : int, numpy.random.Generator or None
@@ -529,7 +579,7 @@ def sensitivity(
     inputs : SinkInputs
         The deterministic case [SI].
     tolerances : mapping of str to Tolerance
-        As in :func:`monte_carlo`.
+        As in :func:`monte_carlo`. [-]
     coverage : float
         Central probability of the interval, in (0, 1] [-]; 0.95 puts a normal input at
         ±1.96 σ and a uniform one at 95 % of its range. The same coverage for every input keeps

@@ -71,7 +71,13 @@ class Measurement:
 
 
 def measurements_from_blocks(blocks) -> tuple[Measurement, ...]:
-    """:class:`Measurement` objects from validated ``measurements:`` blocks."""
+    """:class:`Measurement` objects from validated ``measurements:`` blocks.
+
+    Parameters
+    ----------
+    blocks : sequence
+        The case's validated ``measurements`` blocks (SI). [-]
+    """
     return tuple(
         Measurement(
             name=b.name,
@@ -298,9 +304,9 @@ def calibrate(
     Parameters
     ----------
     inputs : SinkInputs
-        The case (its model options are the starting point; the multiplier multiplies them).
+        The case (its model options are the starting point; the multiplier multiplies them). [-]
     measurements : sequence of Measurement
-        Measured points; each is predicted with its own inlet air, power, pressure and flow.
+        Measured points; each is predicted with its own inlet air, power, pressure and flow. [-]
     target : {"heat_transfer", "sink_resistance"}
         What the multiplier scales [-]. ``heat_transfer``: the air-side h
         (``ModelOptions.heat_transfer_factor``), so fin efficiency, air heating and the
@@ -392,10 +398,25 @@ def apply_calibration(inputs: SinkInputs, calibration: Calibration) -> SinkInput
     ``heat_transfer`` multiplies ``ModelOptions.heat_transfer_factor``; ``sink_resistance``
     multiplies ``ModelOptions.sink_resistance_factor`` (convection and radiation conductance of
     the sink divided by the multiplier, spreading and base conduction recomputed from it).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The case's inputs. [-]
+    calibration : Calibration
+        The fit (:func:`calibrate`). [-]
     """
     return _with_multiplier(inputs, calibration.target, calibration.multiplier)
 
 
 def uncalibrated(inputs: SinkInputs, calibration: Calibration) -> SinkInputs:
-    """The inputs with an applied multiplier taken out again (inverse of apply_calibration)."""
+    """The inputs with an applied multiplier taken out again (inverse of apply_calibration).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        Inputs with the multiplier applied. [-]
+    calibration : Calibration
+        The fit that was applied. [-]
+    """
     return _with_multiplier(inputs, calibration.target, 1.0 / calibration.multiplier)

@@ -63,9 +63,9 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
     case : finkit.case.HeatSinkCase
         The validated case (single-fin cases give no flags: their h is given by design).
         Optional fields read if present: ``source.junction_to_case_basis``,
-        ``air.preheat_allowance``, ``sink.heat_transfer_coefficient_override``.
+        ``air.preheat_allowance``, ``sink.heat_transfer_coefficient_override``. [-]
     inputs : SinkInputs, optional
-        Its physics inputs (built from the case if not given).
+        Its physics inputs (built from the case if not given). [-]
 
     Returns
     -------

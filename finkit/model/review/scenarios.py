@@ -63,7 +63,13 @@ class FilterLoss:
     exponent: float = 2.0
 
     def pressure_drop_at(self, volume_flow):
-        """Pressure drop at a volume flow [Pa] (:func:`.airflow.power_law_pressure_drop`)."""
+        """Pressure drop at a volume flow [Pa] (:func:`.airflow.power_law_pressure_drop`).
+
+        Parameters
+        ----------
+        volume_flow : float or array_like
+            Volume flow through the filter. [m³ s⁻¹]
+        """
         return power_law_pressure_drop(
             volume_flow, self.volume_flow, self.pressure_drop, self.exponent
         )
@@ -173,6 +179,15 @@ def combine_scenarios(name: str, description: str, parts) -> Scenario:
     fans add up; an absolute value (inlet temperature, altitude, power, filter, ...) may be set
     by one part only, or by several with the same value.
 
+    Parameters
+    ----------
+    name : str
+        Name of the combined scenario. [-]
+    description : str
+        Its description. [-]
+    parts : sequence of Scenario
+        The scenarios applied together. [-]
+
     Raises
     ------
     InputError
@@ -210,6 +225,11 @@ def scenarios_from_blocks(blocks) -> tuple[Scenario, ...]:
 
     A block with ``combines`` becomes one merged scenario (:func:`combine_scenarios`) of the
     scenarios it names and its own changes.
+
+    Parameters
+    ----------
+    blocks : sequence of ScenarioBlock
+        The case's validated ``scenarios`` blocks (SI). [-]
     """
     own = {}
     for b in blocks:
@@ -266,6 +286,13 @@ def milder_than_nominal(inputs: SinkInputs, scenario: Scenario) -> list[str]:
     3000 m makes a "2500 m" scenario milder than its own nominal. Each condition the scenario
     sets to a cooler inlet, a lower altitude, less power, more fan or less loss than nominal is
     named (equal values too: that scenario checks nothing beyond the nominal).
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The nominal case. [-]
+    scenario : Scenario
+        The scenario to compare with it. [-]
     """
     out = []
     where = f"scenario {scenario.name}"
@@ -346,13 +373,13 @@ def apply_scenario(inputs: SinkInputs, scenario: Scenario, fan_block=None) -> Si
     Parameters
     ----------
     inputs : SinkInputs
-        The nominal case (:func:`finkit.model.sink_inputs`).
+        The nominal case (:func:`finkit.model.sink_inputs`). [-]
     scenario : Scenario
-        Conditions to change.
+        Conditions to change. [-]
     fan_block : object, optional
         The case's ``air.flow.fan`` block (volume_flow, pressure, count, arrangement,
         rating_density, pressure_factor); required for ``failed_fans``, since a failed fan is
-        taken out of the combination of single-fan curves.
+        taken out of the combination of single-fan curves. [-]
 
     Returns
     -------
@@ -377,6 +404,8 @@ def apply_scenario(inputs: SinkInputs, scenario: Scenario, fan_block=None) -> Si
     narrows the passages (``ModelOptions.deposit_thickness``) and, with its conductivity, adds
     its conduction resistance to the fouling resistance.
     """
+    # Long by design: one block per kind of condition a scenario may change (inlet, altitude, power,
+    # fans, filter, fouling, ...), applied in a fixed order.
     where = f"scenarios[{scenario.name}]"
     s, i = scenario, inputs
     is_fan = isinstance(i.flow, FanDriven)
@@ -649,7 +678,13 @@ class ScenarioTable:
         return self.governing_row.status
 
     def row(self, name: str) -> ScenarioRow:
-        """The row of a scenario by name."""
+        """The row of a scenario by name.
+
+        Parameters
+        ----------
+        name : str
+            Scenario name (``"nominal"`` for the case as stated). [-]
+        """
         for r in self.rows:
             if r.name == name:
                 return r
@@ -664,7 +699,13 @@ def _allowable_power(inputs: SinkInputs) -> float:
 
 
 def scenario_changes(scenario: Scenario) -> tuple[str, ...]:
-    """What a scenario changes from nominal, one readable item each (SI shown in °C, m, W)."""
+    """What a scenario changes from nominal, one readable item each (SI shown in °C, m, W).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario. [-]
+    """
     s, out = scenario, []
     if s.inlet_temperature is not None:
         out.append(f"inlet air {s.inlet_temperature - ZERO_CELSIUS:.1f} degC")
@@ -755,11 +796,11 @@ def run_scenarios(
     Parameters
     ----------
     inputs : SinkInputs
-        The nominal case.
+        The nominal case. [-]
     scenarios : sequence of Scenario
-        Scenarios to run (names unique, not ``nominal``).
+        Scenarios to run (names unique, not ``nominal``). [-]
     fan_block : object, optional
-        The case's ``air.flow.fan`` block, for failed-fan scenarios.
+        The case's ``air.flow.fan`` block, for failed-fan scenarios. [-]
     nominal_description : str, optional
         Text of the nominal row [-].
 

@@ -130,7 +130,7 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
     Parameters
     ----------
     inputs : SinkInputs
-        The case; its own model choices give the chosen row.
+        The case; its own model choices give the chosen row. [-]
 
     Returns
     -------

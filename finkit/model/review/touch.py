@@ -79,7 +79,7 @@ def touch_temperature_check(
     Parameters
     ----------
     inputs : SinkInputs
-        The case.
+        The case. [-]
     limit_temperature : float
         Limit from the user's own standard for that surface material and contact time [K].
         finkit ships no table of limits. (Example only -- check against your standard: some

@@ -154,7 +154,13 @@ class TradeStudy:
         return out
 
     def column(self, name: str) -> np.ndarray:
-        """A design variable or a result by name."""
+        """A design variable or a result by name.
+
+        Parameters
+        ----------
+        name : str
+            A key of :attr:`design` or one of :attr:`RESULTS`. [-]
+        """
         if name in self.design:
             return self.design[name]
         if name in self.RESULTS:
@@ -185,9 +191,9 @@ class TradeStudy:
         ----------
         objectives : tuple of str, optional
             Result columns to minimise. Default: sink resistance, pressure drop and mass in
-            forced convection; sink resistance and mass in natural convection.
+            forced convection; sink resistance and mass in natural convection. [-]
         require_limit : bool
-            Only designs that meet the limit with the required margin take part.
+            Only designs that meet the limit with the required margin take part. [-]
         """
         if objectives is None:
             objectives = ("sink_resistance", "mass")
@@ -199,7 +205,15 @@ class TradeStudy:
         return np.flatnonzero(pareto_front(values))
 
     def best(self, objective: str = "junction_temperature", *, require_limit=False) -> int:
-        """Index of the feasible design with the smallest value of a column."""
+        """Index of the feasible design with the smallest value of a column.
+
+        Parameters
+        ----------
+        objective : str
+            Column to minimise (see :meth:`column`). [-]
+        require_limit : bool, optional
+            Only designs that meet the limit with the required margin take part. [-]
+        """
         usable = self.meets_limit if require_limit else self.is_feasible
         values = np.where(usable, self.column(objective), np.nan)
         if not np.any(np.isfinite(values)):
@@ -210,7 +224,13 @@ class TradeStudy:
         return int(np.nanargmin(values))
 
     def inputs_for(self, index: int) -> SinkInputs:
-        """The case inputs with the geometry of design ``index``."""
+        """The case inputs with the geometry of design ``index``.
+
+        Parameters
+        ----------
+        index : int
+            Position of the design in the study's flat arrays. [-]
+        """
         return _inputs_with(
             self.inputs, self.sink_type, {k: v[index] for k, v in self.design.items()}
         )

@@ -225,6 +225,24 @@ def plate_fin_designs(
 
     Parameters are those of :func:`plate_fin_grid`, but element by element, not combined:
     design i is ``(fin_counts[i], fin_heights[i], fin_thicknesses[i])`` [-, m, m].
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        The case (source, air, fan or flow, limit); its fins are replaced. [-]
+    fin_counts : array_like of int
+        Fin count of each design. [-]
+    fin_heights : array_like
+        Fin height of each design, base to tip. [m]
+    fin_thicknesses : array_like
+        Fin thickness of each design. [m]
+    bounds : ManufacturingBounds, optional
+        Manufacturing limits (defaults: common practice, no source). [-]
+    envelope : Envelope, optional
+        Base plate and maximum height; default the case's base and present overall height. [-]
+    with_allowable : bool
+        Also solve the allowable power at the limit less the margin (a second vectorised
+        call). [-]
     """
     n, h, t = np.broadcast_arrays(
         *(np.asarray(a, float) for a in (fin_counts, fin_heights, fin_thicknesses))
@@ -243,7 +261,24 @@ def pin_fin_designs(
     *,
     with_allowable: bool = True,
 ) -> TradeStudy:
-    """Given pin-fin designs (arrays that broadcast together, flattened), one vectorised call."""
+    """Given pin-fin designs (arrays that broadcast together, flattened), one vectorised call.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        A pin-fin case; its pins are replaced (the arrangement is kept). [-]
+    pin_diameters, pin_heights : array_like
+        Pin diameter and pin height of each design. [m]
+    transverse_pitches, longitudinal_pitches : array_like
+        Transverse and longitudinal pitch of each design. [m]
+    bounds : ManufacturingBounds, optional
+        Manufacturing limits (defaults: common practice, no source). [-]
+    envelope : Envelope, optional
+        Base plate and maximum height; default the case's base and present overall height. [-]
+    with_allowable : bool
+        Also solve the allowable power at the limit less the margin (a second vectorised
+        call). [-]
+    """
     d, h, st, sl = np.broadcast_arrays(
         *(
             np.asarray(a, float)
@@ -276,11 +311,12 @@ def plate_fin_grid(
     fin_thicknesses : array_like
         Fin thicknesses [m].
     bounds : ManufacturingBounds, optional
-        Manufacturing limits (defaults: common practice, no source).
+        Manufacturing limits (defaults: common practice, no source). [-]
     envelope : Envelope, optional
-        Base plate and maximum height; default the case's base and present overall height.
+        Base plate and maximum height; default the case's base and present overall height. [-]
     with_allowable : bool
-        Also solve the allowable power at the limit less the margin (a second vectorised call).
+        Also solve the allowable power at the limit less the margin (a second vectorised
+        call). [-]
 
     Returns
     -------
@@ -340,7 +376,7 @@ def plate_fin_sample(
     fin_height_range, fin_thickness_range : (float, float)
         Low and high fin height and thickness [m].
     bounds, envelope, with_allowable
-        As in :func:`plate_fin_grid`.
+        As in :func:`plate_fin_grid`. [-]
     method : {"latin-hypercube", "sobol", "random"}
         Sampler of :mod:`scipy.stats.qmc` or independent uniform numbers [-].
     seed : int or None
@@ -379,7 +415,7 @@ def pin_fin_grid(
         Values of the longitudinal pitch [m]; None: equal to the transverse pitch (square or
         equilateral-like grid), which keeps the grid three-dimensional.
     bounds, envelope, with_allowable
-        As in :func:`plate_fin_grid`.
+        As in :func:`plate_fin_grid`. [-]
     """
     if longitudinal_pitches is None:
         d, h, st = np.meshgrid(
@@ -417,6 +453,23 @@ def pin_fin_sample(
     """Pin-fin designs sampled in a box, one vectorised call (see :func:`plate_fin_sample`).
 
     ``longitudinal_pitch_range`` None samples the longitudinal pitch equal to the transverse.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        A pin-fin case; its pins are replaced (the arrangement is kept). [-]
+    samples : int
+        Number of designs. [-]
+    pin_diameter_range, pin_height_range, transverse_pitch_range : (float, float)
+        Low and high pin diameter, pin height and transverse pitch. [m]
+    longitudinal_pitch_range : (float, float), optional
+        Low and high longitudinal pitch; None: equal to the transverse pitch. [m]
+    bounds, envelope, with_allowable
+        As in :func:`plate_fin_grid`. [-]
+    method : {"latin-hypercube", "sobol", "random"}
+        Sampler of :mod:`scipy.stats.qmc` or independent uniform numbers. [-]
+    seed : int or None
+        Seed of the generator. [-]
     """
     ranges = [
         _check_range("pin_diameter_range", pin_diameter_range),

@@ -82,9 +82,9 @@ def optimum_fin_count_natural(
         excess at its power.
     fin_counts : array_like of int, optional
         Counts to evaluate; default every count from 2 up to the one that leaves the minimum
-        gap of ``bounds``.
+        gap of ``bounds``. [-]
     bounds : ManufacturingBounds, optional
-        Only ``min_fin_gap`` is used, for the default counts.
+        Only ``min_fin_gap`` is used, for the default counts. [-]
 
     Returns
     -------

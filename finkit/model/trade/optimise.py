@@ -312,9 +312,9 @@ def minimise_junction_temperature(
     inputs : SinkInputs
         A plate-fin case; its fan or flow, power and air are kept [SI].
     bounds : ManufacturingBounds, optional
-        Manufacturing limits (defaults: common practice, no source).
+        Manufacturing limits (defaults: common practice, no source). [-]
     envelope : Envelope, optional
-        Base plate and maximum height; default the case's base and present overall height.
+        Base plate and maximum height; default the case's base and present overall height. [-]
     node : {"junction", limit node}
         The temperature minimised [-].
     min_fin_height : float
@@ -408,6 +408,24 @@ def minimise_mass_meeting_limit(
 
     Parameters are those of :func:`minimise_junction_temperature`. The constraint is
     ``T_node <= limit - required_margin`` at the case's power, for the case's limit node.
+
+    Parameters
+    ----------
+    inputs : SinkInputs
+        A plate-fin case; its fan or flow, power and air are kept [SI].
+    bounds : ManufacturingBounds, optional
+        Manufacturing limits (defaults: common practice, no source). [-]
+    envelope : Envelope, optional
+        Base plate and maximum height; default the case's base and present overall height. [-]
+    min_fin_height : float
+        Lowest fin height searched [m].
+    max_fin_thickness : float
+        Thickest fin searched [m].
+    screen_points : int
+        Points per continuous variable in the screening grid (per fin count) [-].
+    polish_counts : int
+        How many of the best screened fin counts are polished [-]; the neighbours of the best
+        polished count are always polished too.
 
     Returns
     -------
