@@ -601,3 +601,42 @@ def test_sign_off_table_carries_the_title_block_names_escaped():
     assert "<td>A. &lt;b&gt;Bold&lt;/b&gt;</td>" in html
     assert "<td>C. Checker</td>" in html
     assert "<b>Bold</b>" not in html
+
+
+# ------------------------------------------------------------------------------------------
+# The kernel provider (finkit.notes.kernels): in-process kernel, with a kernel process as the
+# fallback when ipykernel's in-process classes cannot be adapted. Software behaviour only.
+
+
+def test_the_in_process_kernel_is_available_here():
+    # Without it every batch child would silently start a kernel process (slower): CI must
+    # notice when an ipykernel release breaks the adapters.
+    from finkit.notes import kernels
+
+    assert kernels.in_process_kernel_manager() is not None, kernels.FALLBACK_REASONS
+
+
+@pytest.mark.slow
+def test_a_note_falls_back_to_a_kernel_process_when_the_in_process_kernel_is_unavailable(
+    tmp_path, monkeypatch
+):
+    from finkit.notes import kernels
+
+    def broken():
+        raise AttributeError("'InProcessKernel' object has no attribute 'shell_stream'")
+
+    monkeypatch.setattr(kernels, "_build_in_process_manager", broken)
+    manager = kernels.in_process_kernel_manager()
+    assert manager is None
+    assert "shell_stream" in kernels.FALLBACK_REASONS[-1]
+    out = render(fixture_case("fallback-1"), tmp_path, kernel_manager=manager)
+    assert out.html.is_file() and "SIMPLE-PROSE-MARKER" in out.html.read_text(encoding="utf-8")
+
+
+@pytest.mark.slow
+def test_a_note_renders_in_the_in_process_kernel(tmp_path):
+    from finkit.notes import kernels
+
+    manager = kernels.in_process_kernel_manager()
+    out = render(fixture_case("in-process-1"), tmp_path, kernel_manager=manager)
+    assert out.html.is_file() and "SIMPLE-PROSE-MARKER" in out.html.read_text(encoding="utf-8")

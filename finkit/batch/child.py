@@ -11,12 +11,12 @@ import sys
 import threading
 import time
 from collections.abc import Iterable, Mapping
-from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
 from finkit import notes
 from finkit.errors import FinkitError
+from finkit.notes.kernels import in_process_kernel_manager, warm_in_process_kernel
 from finkit.report import present
 
 __all__ = [
@@ -25,117 +25,6 @@ __all__ = [
 
 # --------------------------------------------------------------------------------------------
 # The child: one note in an isolated process, with an in-process kernel
-
-
-@lru_cache(maxsize=1)
-def _inprocess_classes() -> tuple[type, type, type]:
-    """Kernel, client and manager classes that let papermill/nbclient drive an in-process kernel.
-
-    ipykernel's in-process classes predate nbclient's asynchronous client: the adapters make
-    ``execute`` and ``wait_for_ready`` awaitable (the cell runs in the main thread, in nbclient's
-    event loop, as in a kernel process), make ``shutdown_kernel`` accept ``now``, and direct the
-    kernel's stdout/stderr messages to the request being executed.
-    """
-    from ipykernel.inprocess.blocking import BlockingInProcessKernelClient
-    from ipykernel.inprocess.ipkernel import InProcessKernel
-    from ipykernel.inprocess.manager import InProcessKernelManager
-    from ipykernel.ipkernel import IPythonKernel
-
-    class _Kernel(InProcessKernel):
-        async def execute_request(self, stream, ident, parent):
-            with self._redirected_io():
-                for out in (self.stdout, self.stderr):
-                    out.set_parent(parent)
-                await IPythonKernel.execute_request(self, stream, ident, parent)
-
-    class _Client(BlockingInProcessKernelClient):
-        async def _dispatch(self, msg):
-            stream = self.kernel.shell_stream
-            self.session.send(stream, msg)
-            await self.kernel.dispatch_shell(stream.recv_multipart())
-            _, reply = self.session.recv(stream, copy=False)
-            self.shell_channel.call_handlers_later(reply)
-
-        async def execute(  # noqa: PLR0913 - the jupyter_client signature
-            self,
-            code,
-            silent=False,
-            store_history=True,
-            user_expressions=None,
-            allow_stdin=None,
-            stop_on_error=True,
-        ):
-            content = {
-                "code": code,
-                "silent": silent,
-                "store_history": store_history,
-                "user_expressions": user_expressions or {},
-                "allow_stdin": False,
-                "stop_on_error": stop_on_error,
-            }
-            msg = self.session.msg("execute_request", content)
-            await self._dispatch(msg)
-            return msg["header"]["msg_id"]
-
-        async def wait_for_ready(self, timeout=None):
-            await self._dispatch(self.session.msg("kernel_info_request"))
-            while True:
-                msg = self.shell_channel.get_msg(timeout=timeout or 60)
-                if msg["msg_type"] == "kernel_info_reply":
-                    self._handle_kernel_info_reply(msg)
-                    return
-
-        def is_alive(self):
-            return self.kernel is not None
-
-    class _Manager(InProcessKernelManager):
-        def start_kernel(self, **kwargs):
-            self.kernel = _Kernel(parent=self, session=self.session)
-            _enable_inline_matplotlib(self.kernel.shell)
-
-        def client(self, **kwargs):
-            kwargs["kernel"] = self.kernel
-            return _Client(parent=self, session=self.session, **kwargs)
-
-        def shutdown_kernel(self, now=False, restart=False):
-            super().shutdown_kernel()
-
-    return _Kernel, _Client, _Manager
-
-
-_INLINE_BACKEND = "module://matplotlib_inline.backend_inline"
-
-
-def _enable_inline_matplotlib(shell: Any) -> None:
-    """Matplotlib as a kernel process has it: the inline backend, figures shown after a cell.
-
-    A kernel process sets ``MPLBACKEND`` to the inline backend, whose import (at the first
-    figure) calls these two functions on the running shell.
-    """
-    os.environ["MPLBACKEND"] = _INLINE_BACKEND
-    from IPython.core.pylabtools import activate_matplotlib
-    from matplotlib_inline.backend_inline import configure_inline_support
-
-    activate_matplotlib(_INLINE_BACKEND)
-    configure_inline_support(shell, _INLINE_BACKEND)
-
-
-def _inprocess_kernel_manager() -> Any:
-    from IPython.core.interactiveshell import InteractiveShell
-    from traitlets.config import Config
-
-    _, _, manager = _inprocess_classes()
-    # One shell per process: a fork of a process that runs IPython (e.g. a notebook calling
-    # run_batch) must not reuse the parent's shell; its history stays in memory, as nbclient
-    # asks of a kernel process.
-    from ipykernel.inprocess.ipkernel import InProcessInteractiveShell
-
-    InProcessInteractiveShell.clear_instance()
-    InteractiveShell.clear_instance()
-    config = Config()
-    config.HistoryManager.hist_file = ":memory:"
-    config.HistoryManager.enabled = False
-    return manager(config=config)
 
 
 def _render_child(task: Mapping[str, Any]) -> dict[str, Any]:
@@ -147,7 +36,7 @@ def _render_child(task: Mapping[str, Any]) -> dict[str, Any]:
     stages: dict[str, float] = {}
     try:
         started = time.perf_counter()
-        km = _inprocess_kernel_manager()
+        km = in_process_kernel_manager()  # None: a kernel process (the fallback)
         stages["start kernel"] = time.perf_counter() - started
         render_note(
             task["case"],
@@ -325,7 +214,7 @@ def _warm_up(templates: Iterable[Path], show_code: bool, paper: str, validated: 
             importlib.import_module(name)
         except Exception:  # noqa: BLE001 - 'from x import function' names are not modules
             pass
-    _inprocess_classes()
+    warm_in_process_kernel()
     notes.library_versions()
     if validated is not None:
         try:

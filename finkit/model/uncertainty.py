@@ -331,8 +331,8 @@ class MonteCarloResult:
         Parameters
         ----------
         temperature : float
-            Threshold, in the unit of ``quantity`` (Pa or m³ s⁻¹ for ``pressure_drop`` or
-            ``volume_flow``; a temperature otherwise). [K]
+            Threshold, in the unit of ``quantity``: [Pa] for ``pressure_drop``, [m³ s⁻¹] for
+            ``volume_flow``, [K] for a temperature.
         quantity : str, optional
             One of :attr:`QUANTITIES`. [-]
         """

@@ -24,11 +24,13 @@ event-handler attribute, no external resource. Otherwise :func:`render_note` rai
 :class:`NoteRenderError` and writes nothing.
 
 Modules: :mod:`~finkit.notes.files`, :mod:`~finkit.notes.setup`, :mod:`~finkit.notes.metadata`,
-:mod:`~finkit.notes.html`, :mod:`~finkit.notes.render`. Their public names are re-exported here;
-code inside finkit imports a name from the module that defines it.
+:mod:`~finkit.notes.html`, :mod:`~finkit.notes.render`, and :mod:`~finkit.notes.kernels` (how a
+note's kernel is made: a kernel process, or an in-process kernel in a batch child with the
+process as the fallback). Their public names are re-exported here (not the kernels'); code
+inside finkit imports a name from the module that defines it.
 """
 
-from finkit.notes import files, html, metadata, render, setup
+from finkit.notes import files, html, kernels, metadata, render, setup  # noqa: F401
 from finkit.notes.files import *  # noqa: F403
 from finkit.notes.html import *  # noqa: F403
 from finkit.notes.metadata import *  # noqa: F403

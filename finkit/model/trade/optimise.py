@@ -310,7 +310,7 @@ def minimise_junction_temperature(
     Parameters
     ----------
     inputs : SinkInputs
-        A plate-fin case; its fan or flow, power and air are kept [SI].
+        A plate-fin case; its fan or flow, power and air are kept. [-]
     bounds : ManufacturingBounds, optional
         Manufacturing limits (defaults: common practice, no source). [-]
     envelope : Envelope, optional
@@ -412,7 +412,7 @@ def minimise_mass_meeting_limit(
     Parameters
     ----------
     inputs : SinkInputs
-        A plate-fin case; its fan or flow, power and air are kept [SI].
+        A plate-fin case; its fan or flow, power and air are kept. [-]
     bounds : ManufacturingBounds, optional
         Manufacturing limits (defaults: common practice, no source). [-]
     envelope : Envelope, optional
