@@ -536,3 +536,51 @@ def test_user_materials():
     data["materials"]["nb-alloy"]["conductivity"] = "190 W/m/K"
     (message,) = errors_of(data)
     assert message.startswith("materials.nb-alloy.conductivity: unknown key")
+
+
+@pytest.mark.parametrize("path", DEMOS, ids=lambda p: p.stem)
+def test_every_quantity_of_a_case_knows_its_unit_from_the_schema(path):
+    # Common practice, no source: a reader of a validated case (the note's input table, the
+    # explorer) takes each number's unit from the field's type, never from its name. Every
+    # value the demo cases enter with a unit has a kind in the schema, and converting the
+    # entered text with that kind gives the SI value the case holds. Tolerance bounds and the
+    # trade study's ranges are the exceptions: their kind is that of the toleranced input or
+    # of the varied dimension, not of the field.
+    from finkit.case.fields import unit_kind_at
+    from finkit.case.units import to_si
+
+    case = load_case(path)
+    data = case.model_dump(mode="json")
+
+    def leaves(value, trail=()):
+        if isinstance(value, dict):
+            for key, item in value.items():
+                yield from leaves(item, (*trail, key))
+        elif isinstance(value, list) and any(isinstance(v, dict) for v in value):
+            for i, item in enumerate(value):
+                yield from leaves(item, (*trail, i))
+        else:
+            yield trail, value
+
+    checked = 0
+    for trail, entered in leaves(case.entered):
+        texts = entered if isinstance(entered, list) else [entered]
+        if not texts or not all(isinstance(t, str) and t[:1].isdigit() for t in texts):
+            continue
+        if trail[0] in ("tolerances", "trade_study") or trail[-1] in {
+            "revision",
+            "name",
+            "description",
+            "basis",
+        }:
+            continue
+        kind = unit_kind_at(case, trail)
+        assert kind is not None, trail
+        held = data
+        for key in trail:
+            held = held[key]
+        for text, si in zip(texts, held if isinstance(held, list) else [held], strict=True):
+            assert to_si(text, kind, "") == pytest.approx(si, rel=1e-12, abs=1e-15), trail
+        checked += 1
+    assert checked >= 5
+    assert unit_kind_at(case, ("case_id",)) is None  # not a quantity

@@ -11,7 +11,8 @@ from __future__ import annotations
 
 import json
 import math
-from typing import Annotated
+from collections.abc import Mapping
+from typing import Annotated, Any, NamedTuple, get_args
 
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field
 from pydantic_core import PydanticCustomError
@@ -27,8 +28,10 @@ __all__ = [
     "fail_at",
     "fail_many",
     "format_bound",
+    "UnitKind",
     "quantity",
     "shown",
+    "unit_kind_at",
     "whole",
 ]
 
@@ -122,6 +125,66 @@ def format_bound(value_si: float, kind: str, unit: str | None = None) -> str:
 _SI_WORDS = {"length": "metres", "volume_flow": "m^3/s", "velocity": "m/s"}
 
 
+class UnitKind(NamedTuple):
+    """The unit kind of a quantity field (a key of :data:`finkit.case.units.KINDS`), carried in
+    the field's type, so that a reader of a validated case knows each number's unit from the
+    schema rather than from the field's name (:func:`unit_kind_at`)."""
+
+    kind: str
+
+
+def unit_kind_at(case: BaseModel, path: tuple) -> str | None:
+    """The unit kind of the field at ``path`` in a validated case, from its type.
+
+    Parameters
+    ----------
+    case : pydantic.BaseModel
+        A validated case (or any part of one). [-]
+    path : tuple
+        Keys (field names) and list indexes from ``case`` to the field, as in the case file. [-]
+
+    Returns
+    -------
+    str or None
+        The field's :class:`UnitKind` (a key of :data:`finkit.case.units.KINDS`); None when the
+        field is not a quantity (a count, a factor, a name) or the path does not lead to a
+        field of a model. [-]
+    """
+    node: Any = case
+    for depth, key in enumerate(path):
+        last = depth == len(path) - 1
+        if isinstance(node, BaseModel) and isinstance(key, str):
+            field = type(node).model_fields.get(key)
+            if field is None:
+                return None
+            if last:
+                return _kind_in(field.metadata) or _kind_in_type(field.annotation)
+            node = getattr(node, key)
+        elif isinstance(key, int) and isinstance(node, list | tuple) and key < len(node):
+            node = node[key]
+        elif isinstance(node, Mapping) and key in node:
+            node = node[key]
+        else:
+            return None
+    return None
+
+
+def _kind_in(metadata) -> str | None:
+    return next((m.kind for m in metadata if isinstance(m, UnitKind)), None)
+
+
+def _kind_in_type(annotation) -> str | None:
+    """The UnitKind inside an annotation (``Quantity``, ``tuple[Quantity, ...]``, ``X | None``)."""
+    found = _kind_in(getattr(annotation, "__metadata__", ()))
+    if found:
+        return found
+    for arg in get_args(annotation):
+        found = _kind_in_type(arg)
+        if found:
+            return found
+    return None
+
+
 def quantity(
     kind: str,
     *,
@@ -183,6 +246,7 @@ def quantity(
     unit = show or SHOW_UNIT.get(kind, "")
     return Annotated[
         float,
+        UnitKind(kind),
         BeforeValidator(convert, json_schema_input_type=float | str),
         Field(
             description=f"{kind.replace('_', ' ')}: a number with a unit, e.g. '1 {unit}' "

@@ -472,52 +472,6 @@ def _one_line(text: str, limit: int = 220) -> str:
     return line if len(line) <= limit else line[: limit - 1] + "…"
 
 
-_SI_UNITS = {
-    "power": "W",
-    "footprint_length": "m",
-    "footprint_width": "m",
-    "junction_to_case": "K/W",
-    "resistance": "K/W",
-    "area_resistance": "K·m²/W",
-    "thickness": "m",
-    "thermal_conductivity": "W/(m·K)",
-    "width": "m",
-    "length": "m",
-    "height": "m",
-    "diameter": "m",
-    "transverse_pitch": "m",
-    "longitudinal_pitch": "m",
-    "inner_radius": "m",
-    "outer_radius": "m",
-    "inlet_temperature": "K",
-    "surroundings_temperature": "K",
-    "base_temperature": "K",
-    "ambient_temperature": "K",
-    "tip_temperature": "K",
-    "temperature": "K",
-    "required_margin": "K",
-    "altitude": "m",
-    "volume_flow": "m³/s",
-    "approach_velocity": "m/s",
-    "pressure": "Pa",
-    "rating_density": "kg/m³",
-    "density": "kg/m³",
-    "side_gap": "m",
-    "top_gap": "m",
-    "heat_transfer_coefficient": "W/(m²·K)",
-    "heat_transfer_coefficients": "W/(m²·K)",
-    "emissivity": "-",
-    "pressure_factor": "-",
-    "count": "-",
-}
-_ABSOLUTE = {
-    "inlet_temperature",
-    "surroundings_temperature",
-    "base_temperature",
-    "ambient_temperature",
-    "tip_temperature",
-    "temperature",
-}
 _NOT_INPUTS = {"case_id", "kind", "title_block", "previous_revision"}
 
 #: Blocks whose items (scenarios, measurements, tolerances) take one row each in the inputs
@@ -610,34 +564,36 @@ def _infer_kind(entered: Any, value: float) -> str | None:
     return None
 
 
-def _si_text(path: tuple, value: Any, entered: Any = None) -> str:
-    """The SI value of one input with its unit (absolute temperatures also in °C)."""
+def _si_text(case: Any, path: tuple, value: Any, entered: Any = None) -> str:
+    """The SI value of one input with its unit (absolute temperatures also in °C).
+
+    The unit comes from the field's type in the case schema (:func:`unit_kind_at`); only a
+    value inside a block whose fields have no fixed kind (a tolerance's ``low``/``high``) takes
+    its kind from the unit it was entered with.
+    """
+    from finkit.case.fields import unit_kind_at
     from finkit.case.units import KINDS
 
     if value is None:
         return "—"
     if isinstance(value, bool | str):
         return str(value)
-    name = next((str(p) for p in reversed(path) if isinstance(p, str)), "")
-    unit = _SI_UNITS.get(name)
-    is_absolute = name in _ABSOLUTE
+    kind = unit_kind_at(case, path)
+    if kind is None:
+        sample = entered[0] if isinstance(entered, list | tuple) and entered else entered
+        number = value[0] if isinstance(value, list | tuple) and value else value
+        if isinstance(number, int | float) and not isinstance(number, bool):
+            kind = _infer_kind(sample, float(number))
+    unit = _PRETTY_UNITS.get(KINDS[kind][0], KINDS[kind][0]) if kind else None
     if isinstance(value, list | tuple):
         numbers = [v for v in value if isinstance(v, int | float) and not isinstance(v, bool)]
         if len(numbers) != len(value):
             return ", ".join(str(v) for v in value)
-        if unit is None and isinstance(entered, list | tuple) and entered:
-            kind = _infer_kind(entered[0], numbers[0])
-            unit = _PRETTY_UNITS.get(KINDS[kind][0], KINDS[kind][0]) if kind else None
         text = ", ".join(_sig(v, 4) for v in numbers)
         return f"{text} {unit}" if unit and unit != "-" else text
     if not isinstance(value, int | float):
         return str(value)
-    if unit is None:
-        kind = _infer_kind(entered, float(value))
-        if kind is not None:
-            unit = _PRETTY_UNITS.get(KINDS[kind][0], KINDS[kind][0])
-            is_absolute = kind == "temperature"
-    if is_absolute and unit == "K":
+    if kind == "temperature":
         return f"{_number_unit(value, 'K')} ({_c(value)})"
     return _number_unit(value, unit)
 
@@ -672,7 +628,7 @@ def inputs_table(result) -> present.Fragment:
         if path[0] in _NOT_INPUTS:
             continue
         seen.add(path)
-        si_text = _si_text(path, _lookup(si, path), value)
+        si_text = _si_text(case, path, _lookup(si, path), value)
         if path[0] in _GROUPED_BLOCKS and len(path) > 2:
             # One row per scenario, measurement or tolerance: each is shown in full in its
             # own section, so the appendix keeps it to one line.
@@ -717,7 +673,7 @@ def inputs_table(result) -> present.Fragment:
             continue
         parent = _lookup(entered, path[:-1]) if len(path) > 1 else entered
         if isinstance(parent, Mapping):
-            rows.append((_path_text(path), "(default)", _si_text(path, value)))
+            rows.append((_path_text(path), "(default)", _si_text(case, path, value)))
     return present.html_table(
         rows,
         header=("Input", "As entered", "SI value used"),
