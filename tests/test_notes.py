@@ -640,3 +640,21 @@ def test_a_note_renders_in_the_in_process_kernel(tmp_path):
     manager = kernels.in_process_kernel_manager()
     out = render(fixture_case("in-process-1"), tmp_path, kernel_manager=manager)
     assert out.html.is_file() and "SIMPLE-PROSE-MARKER" in out.html.read_text(encoding="utf-8")
+
+
+def test_a_changed_in_process_kernel_class_falls_back_before_any_note_runs(monkeypatch):
+    # The adapters' attributes are checked when the manager is built: an ipykernel without
+    # one of them gives the fallback (a kernel process), not a note that fails half-way.
+    from finkit.notes import kernels
+
+    wanted = dict(kernels._ADAPTED_ATTRIBUTES)
+    wanted["InProcessKernel"] = (*wanted["InProcessKernel"], "attribute_of_another_release")
+    kernels._in_process_classes.cache_clear()
+    monkeypatch.setattr(kernels, "_ADAPTED_ATTRIBUTES", wanted)
+    try:
+        assert kernels.in_process_kernel_manager() is None
+        assert "attribute_of_another_release" in kernels.FALLBACK_REASONS[-1]
+    finally:
+        monkeypatch.undo()
+        kernels._in_process_classes.cache_clear()
+    assert kernels.in_process_kernel_manager() is not None

@@ -7,9 +7,11 @@ isolated process, warmed by the parent, so a second process would only add its s
 
 The in-process kernel adapts ipykernel's in-process classes to nbclient's asynchronous client
 (:func:`_in_process_classes`); those classes are not a stable public API. When this ipykernel
-does not offer what the adapters need, :func:`in_process_kernel_manager` returns None and the
+does not offer what the adapters need (its classes, and the attributes the adapters use,
+checked when the manager is built), :func:`in_process_kernel_manager` returns None and the
 note runs in a kernel process as usual (slower, the same note); :data:`FALLBACK_REASONS` keeps
-why, and the fallback is tested.
+why, and the fallback is tested. A change that shows only while a cell runs is not caught
+here: that note fails with its error, and the batch records it.
 """
 
 from __future__ import annotations
@@ -52,6 +54,14 @@ def warm_in_process_kernel() -> None:
         pass
 
 
+#: The attributes of ipykernel's classes that the adapters of :func:`_in_process_classes` use.
+_ADAPTED_ATTRIBUTES = {
+    "InProcessKernel": ("shell_stream", "dispatch_shell", "_redirected_io", "stdout", "stderr"),
+    "BlockingInProcessKernelClient": ("shell_channel", "_handle_kernel_info_reply"),
+    "IPythonKernel": ("execute_request",),
+}
+
+
 @lru_cache(maxsize=1)
 def _in_process_classes() -> tuple[type, type, type]:
     """Kernel, client and manager classes that let papermill/nbclient drive an in-process kernel.
@@ -65,6 +75,18 @@ def _in_process_classes() -> tuple[type, type, type]:
     from ipykernel.inprocess.ipkernel import InProcessKernel
     from ipykernel.inprocess.manager import InProcessKernelManager
     from ipykernel.ipkernel import IPythonKernel
+
+    # What the adapters below rely on, checked here so that a changed ipykernel falls back to
+    # a kernel process (AttributeError) instead of failing in the middle of a note.
+    owners = {
+        "InProcessKernel": InProcessKernel,
+        "BlockingInProcessKernelClient": BlockingInProcessKernelClient,
+        "IPythonKernel": IPythonKernel,
+    }
+    for owner, names in _ADAPTED_ATTRIBUTES.items():
+        for name in names:
+            if not hasattr(owners[owner], name):
+                raise AttributeError(f"{owner} has no {name!r}")
 
     class _Kernel(InProcessKernel):
         async def execute_request(self, stream, ident, parent):
