@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from finkit.case.units import format_quantity
+from finkit.model.trade.case_study import design_axes
 from finkit.report import present
 from finkit.report.formatting import _join
 from finkit.report.trade.study import (
@@ -14,7 +15,6 @@ from finkit.report.trade.study import (
     OBJECTIVE_TEXT,
     ChosenDesign,
     TradeNote,
-    _axes,
 )
 
 __all__ = [
@@ -145,7 +145,7 @@ def study_table(note: TradeNote) -> present.Fragment:
     entered = note.result.case.entered.get("trade_study", {})
     rows = []
     grid = block.sampling == "grid"
-    for name, values in _axes(block, study.sink_type).items():
+    for name, values in design_axes(block).items():
         label, kind, unit = _DESIGN[name]
         arr = np.atleast_1d(np.asarray(values, float))
         lo, hi = _plain(float(arr.min()), kind, unit), _plain(float(arr.max()), kind, unit)
