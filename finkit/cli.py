@@ -127,6 +127,13 @@ def _governing_lines(payload: dict) -> list[str]:
         f"governing condition: {gov['condition']} ({gov.get('description') or 'as stated'})",
         f"  why: {gov.get('reason', '')}",
     ]
+    if payload.get("governing_source"):
+        node = next(
+            (x.get("limit_node") for x in payload.get("sources") or [] if x.get("name") ==
+             payload["governing_source"]),
+            "limit node",
+        )  # fmt: skip
+        lines.append(f"  governing source: {payload['governing_source']} ({node})")
     if None not in (node_t, limit, margin, required):
         if margin >= required:
             against = f"meets the required {required:.3g} K"
@@ -182,6 +189,32 @@ def _condition_lines(payload: dict) -> list[str]:
     return lines
 
 
+def _source_lines(payload: dict) -> list[str]:
+    """Each source of a several-source case at the governing condition, governing first."""
+    sources = payload.get("sources") or []
+    if not sources:
+        return []
+    width = max(len(x["name"]) for x in sources) + 2
+    lines = [
+        f"sources at the governing condition ({len(sources)}, governing first):",
+        f"  {'name':<{width}}  status  power [W]  node       node [degC]  limit [degC]  "
+        "margin [K]  alone [W]",
+    ]
+    for x in sources:
+        lines.append(
+            f"  {x['name']:<{width}}  {x['status']:<6}  {_number(_value(x, 'power')):>9}  "
+            f"{x['limit_node']:<9}  {_number(_value(x, 'node_temperature')):>11}  "
+            f"{_number(_value(x, 'limit_temperature')):>12}  "
+            f"{_number(_value(x, 'margin')):>10}  "
+            f"{_number(_value(x, 'allowable_power_alone')):>9}"
+        )
+    lines.append(
+        "  (alone: power that source could reach with the others held, at its limit less its "
+        "required margin)"
+    )
+    return lines
+
+
 def _check(args) -> int:
     from finkit.case.schema import load_case
 
@@ -195,7 +228,7 @@ def _check(args) -> int:
         print(_dumps(payload))
         return EXIT_FAIL if status == "fail" else EXIT_PASS
     print(f"case {case.case_id}: status {status.upper()}")
-    for line in _governing_lines(payload) + _condition_lines(payload):
+    for line in _governing_lines(payload) + _source_lines(payload) + _condition_lines(payload):
         print(line)
     if payload.get("governing"):
         print(f"results at the governing condition '{payload['governing']['condition']}':")

@@ -4,7 +4,9 @@ The demo cases in ``demo_cases/`` describe an invented product line; every numbe
 made up for demonstration. Notes go to ``demo_out/`` (or the folder given with ``--out``;
 ``nb200-trade-study.yaml`` is rendered as a trade-study note); the
 batch of ``demo_cases/nb-series-variants.csv`` (variants of ``nb200-plate-fan.yaml``) goes to
-``demo_out/nb-series-batch/`` with its overview ``index.html``.
+``demo_out/nb-series-batch/`` with its overview ``index.html``, and the batch of
+``demo_cases/nb400-variants.csv`` (variants of the three-source board ``nb400-board-sources.yaml``,
+one on a vapour-chamber base) to ``demo_out/nb400-batch/``.
 """
 
 from __future__ import annotations
@@ -19,6 +21,11 @@ ROOT = Path(__file__).resolve().parent.parent
 DEMO_CASES = ROOT / "demo_cases"
 BATCH_BASE = DEMO_CASES / "nb200-plate-fan.yaml"
 BATCH_VARIANTS = DEMO_CASES / "nb-series-variants.csv"
+#: Every demo batch: (base case, variant table, output folder name).
+BATCHES = (
+    (BATCH_BASE, BATCH_VARIANTS, "nb-series-batch"),
+    (DEMO_CASES / "nb400-board-sources.yaml", DEMO_CASES / "nb400-variants.csv", "nb400-batch"),
+)
 TRADE_STUDY = DEMO_CASES / "nb200-trade-study.yaml"
 
 
@@ -66,13 +73,15 @@ def main(argv: list[str] | None = None) -> int:
         "Open the note.html files in a browser; each folder also holds note.ipynb and results.json."
     )
 
-    if BATCH_VARIANTS.is_file():
+    for base, variants, folder in BATCHES:
+        if not variants.is_file():
+            continue
         from finkit.batch import EXIT_NOT_COMPUTED, run_batch
 
-        batch_out = out / "nb-series-batch"
-        print(f"\nRendering the variant batch {BATCH_VARIANTS.name} into {batch_out}/")
+        batch_out = out / folder
+        print(f"\nRendering the variant batch {variants.name} into {batch_out}/")
         try:
-            batch = run_batch(BATCH_BASE, BATCH_VARIANTS, batch_out, progress=sys.stderr.isatty())
+            batch = run_batch(base, variants, batch_out, progress=sys.stderr.isatty())
         except FinkitError as exc:
             print(f"  the batch could not be run: {exc}", file=sys.stderr)
             return 2

@@ -35,7 +35,8 @@ def uniform_spline_coefficients(x: np.ndarray, y: np.ndarray) -> np.ndarray:
     for i in range(1, n - 1):
         a[i, i - 1 : i + 2] = (1.0, 4.0, 1.0)
         rhs[i] = 6.0 * (y[i + 1] - 2.0 * y[i] + y[i - 1]) / h**2
-    m = np.linalg.solve(a, rhs)  # second derivatives at the nodes
+    # second derivatives at the nodes (trailing dimensions as columns)
+    m = np.linalg.solve(a, rhs.reshape(n, -1)).reshape(rhs.shape)
     return np.stack(
         [
             (m[1:] - m[:-1]) / (6.0 * h),
@@ -54,13 +55,14 @@ def uniform_spline(x: np.ndarray, y: np.ndarray):
     x : numpy.ndarray
         Uniform grid, increasing, at least 4 points [unit of x].
     y : numpy.ndarray
-        Values at the nodes [unit of y].
+        Values at the nodes, first axis along ``x``; trailing dimensions are interpolated
+        alike [unit of y].
 
     Returns
     -------
     callable
-        ``spline(q) -> array``; outside the grid the end polynomials are extended (as
-        ``CubicSpline(x, y)`` does by default) [unit of y].
+        ``spline(q) -> array`` of shape ``q.shape + y.shape[1:]``; outside the grid the end
+        polynomials are extended (as ``CubicSpline(x, y)`` does by default) [unit of y].
     """
     x = np.asarray(x, dtype=float)
     c = uniform_spline_coefficients(x, np.asarray(y, dtype=float))
@@ -70,6 +72,7 @@ def uniform_spline(x: np.ndarray, y: np.ndarray):
         q = np.asarray(q, dtype=float)
         k = np.clip(np.floor((q - x0) / h).astype(int), 0, last)
         t = q - (x0 + k * h)
+        t = t.reshape(t.shape + (1,) * (c.ndim - 2))  # y with trailing dimensions
         return ((c[0][k] * t + c[1][k]) * t + c[2][k]) * t + c[3][k]
 
     return spline

@@ -131,13 +131,18 @@ def _reason(o: VariantOutcome) -> str:
     failing = gov.get("failing_conditions") or []
     if margin is None or required is None:
         return ""
+    source = (o.results or {}).get("governing_source")
     if o.status == "pass":
         where = f"in all {count} conditions" if count else "at its condition"
+        if source:
+            return f"every source meets its required margin {where}"
         return f"meets the required {required:.3g} K margin {where}"
+    # several sources: the governing one is named (its own limit and margin)
+    at = f"{condition}, {source}" if source else condition
     if margin < 0:
-        text = f"{condition}: {-margin:.3g} K above the limit"
+        text = f"{at}: {-margin:.3g} K above the limit"
     else:
-        text = f"{condition}: {required - margin:.3g} K short of the required {required:.3g} K"
+        text = f"{at}: {required - margin:.3g} K short of the required {required:.3g} K"
     if count and len(failing) > 1:
         text += f" (fails in {len(failing)} of {count} conditions)"
     return text

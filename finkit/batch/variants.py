@@ -296,8 +296,9 @@ def apply_overrides(base: Mapping[str, Any], overrides: Mapping[str, Any]) -> di
     base : mapping
         The case as entered. [-]
     overrides : mapping
-        Dotted path (``source.power``, ``air.flow.fan.pressure[2]``) -> value; ``None`` removes
-        the entry. Missing mappings on the way are created. [-]
+        Dotted path (``source.power``, ``air.flow.fan.pressure[2]``, ``sources.regulator.power``
+        for the item of a list named ``regulator``) -> value; ``None`` removes the entry.
+        Missing mappings on the way are created. [-]
 
     Returns
     -------
@@ -320,6 +321,16 @@ def apply_overrides(base: Mapping[str, Any], overrides: Mapping[str, Any]) -> di
                 if not isinstance(node, list) or not -len(node) <= part < len(node):
                     raise KeyError(path_, f"{here} is not a list item of the base case")
                 node = node[part]
+                continue
+            if isinstance(node, list):
+                # a list of named items (sources): ``sources.regulator.power``
+                named = [x for x in node if isinstance(x, dict) and x.get("name") == part]
+                if not named:
+                    names = ", ".join(str(x.get("name")) for x in node if isinstance(x, dict))
+                    raise KeyError(
+                        path_, f"{here}: the base case has no item named {part!r} ({names})"
+                    )
+                node = named[0]
                 continue
             if not isinstance(node, dict):
                 raise KeyError(path_, f"the base case has no mapping at {here}")

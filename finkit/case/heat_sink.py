@@ -54,6 +54,7 @@ from finkit.case.review_blocks import (
     HeatTransferCoefficientOverride,
     JunctionToCaseBasis,
     MeasurementBlock,
+    Name,
     PreheatAllowance,
     ReviewBlocks,
     ScenarioBlock,
@@ -77,6 +78,9 @@ __all__ = [
     "SingleFinLimit",
     "Sink",
     "Source",
+    "SourceOnBase",
+    "SourceLimit",
+    "Spreader",
 ]
 
 
@@ -135,12 +139,57 @@ class Source(_Model):
     interface: Interface
 
 
+class SourceLimit(_Model):
+    """A source's own limit: node, temperature [K] and required margin [K] below it."""
+
+    node: Literal["junction", "case", "base"]
+    temperature: Temperature
+    required_margin: TemperatureDifference = 0.0
+    requirement_id: Text | None = None
+
+
+class SourceOnBase(_Model):
+    """One of several sources on the base (``sources:``), placed where it sits.
+
+    ``centre_along`` is the distance of the footprint centre from the inlet edge of the base
+    (in natural convection: from the lower edge), ``centre_across`` from the left side edge
+    looking downstream (upward) [m]. ``footprint_length`` lies along the flow. Without its own
+    ``limit`` the case's ``limit`` applies to the source.
+    """
+
+    name: Name
+    power: Power
+    footprint_length: Length
+    footprint_width: Length
+    centre_along: Length
+    centre_across: Length
+    junction_to_case: ThermalResistance = 0.0
+    junction_to_case_basis: JunctionToCaseBasis | None = None
+    interface: Interface
+    limit: SourceLimit | None = None
+
+
+class Spreader(_Model):
+    """A base that spreads heat better than its metal: a vapour chamber or heat pipes.
+
+    Represented by effective conductivities [W m⁻¹ K⁻¹] in the plane of the base and through
+    its thickness, taken from the supplier (``source`` says where). These do not capture
+    dry-out, orientation against gravity or the heat-pipe power limit.
+    """
+
+    kind: Literal["vapour-chamber", "heat-pipes"]
+    in_plane_conductivity: Conductivity
+    through_conductivity: Conductivity
+    source: Text
+
+
 class Base(_Model):
-    """Base plate [m]: width across the flow, length along it, thickness."""
+    """Base plate [m]: width across the flow, length along it, thickness; optional spreader."""
 
     width: Length
     length: Length
     thickness: Length
+    spreader: Spreader | None = None
 
 
 class Fins(_Model):
@@ -424,7 +473,8 @@ class HeatSinkCase(Case):
     """A heat sink on a heat source (``kind: heat-sink``)."""
 
     kind: Literal["heat-sink"]
-    source: Source
+    source: Source | None = None
+    sources: list[SourceOnBase] = []
     sink: Sink
     air: Air
     limit: Limit
@@ -436,6 +486,71 @@ class HeatSinkCase(Case):
     tolerances: TolerancesBlock | None = None
     monte_carlo: MonteCarloBlock | None = None
     trade_study: TradeStudyBlock | None = None
+
+    @model_validator(mode="after")
+    def _one_source_form(self):
+        if (self.source is None) == (not self.sources):
+            raise _fail(
+                "give either source (one device, centred on the base) or sources (a list of "
+                "devices, each placed on the base), not both and not neither"
+            )
+        names = [s.name for s in self.sources]
+        repeated = sorted({n for n in names if names.count(n) > 1})
+        if repeated:
+            raise _fail(f"sources: each name may appear once (got {', '.join(repeated)} twice)")
+        base = self.sink.base
+        problems = []
+        for i, s in enumerate(self.sources):
+            for edge, centre, size, side, size_name in (
+                ("length", s.centre_along, s.footprint_length, "centre_along", "footprint_length"),
+                ("width", s.centre_across, s.footprint_width, "centre_across", "footprint_width"),
+            ):
+                span = (centre - size / 2, centre + size / 2)
+                extent = getattr(base, edge)
+                if span[0] < -1e-9 * extent or span[1] > extent * (1 + 1e-9):
+                    problems.append(
+                        (
+                            f"sources[{i}].{side}",
+                            f"{_fmt(centre, 'length')} puts {s.name!r} ({size_name} "
+                            f"{_fmt(size, 'length')}) over the base edge: its centre must "
+                            f"lie within {_fmt(size / 2, 'length')}…"
+                            f"{_fmt(extent - size / 2, 'length')} on the base {edge} "
+                            f"{_fmt(extent, 'length')}",
+                        )
+                    )
+        if problems:
+            raise _fail_many(problems)
+        if self.sources:
+            unavailable = [
+                name
+                for name, given in (
+                    ("measurements", bool(self.measurements)),
+                    ("calibration", self.calibration is not None),
+                    ("tolerances", self.tolerances is not None),
+                    ("monte_carlo", self.monte_carlo is not None),
+                    ("trade_study", self.trade_study is not None),
+                )
+                if given
+            ]
+            if unavailable:
+                raise _fail(
+                    f"{', '.join(unavailable)}: not yet available with several sources (their "
+                    "tolerances and fits act on one source's chain); run them on a "
+                    "single-source case of the same sink, or remove them"
+                )
+        return self
+
+    @property
+    def is_multi_source(self) -> bool:
+        """True when the case lists several placed sources (``sources``)."""
+        return bool(self.sources)
+
+    @property
+    def total_power(self) -> float:
+        """Power of the one source, or the sum over ``sources`` [W]."""
+        if self.sources:
+            return float(sum(s.power for s in self.sources))
+        return float(self.source.power)
 
     @model_validator(mode="after")
     def _review_blocks(self):

@@ -43,6 +43,7 @@ CASE_KEYS = (
     "title_block",
     "materials",
     "source",
+    "sources",
     "sink",
     "air",
     "limit",
@@ -141,5 +142,11 @@ def case_from_parameters(
         )
     for name, path in OVERRIDES.items():
         if given.get(name) is not None:
+            if name == "power" and data.get("sources"):
+                raise InputError(
+                    f"parameters.power: got {given[name]!r}; this case lists several sources, so "
+                    "there is no single source.power to override: set each one's power under "
+                    "sources in the case (or a batch column such as sources.<name>.power)"
+                )
             _set(data, path, given[name], name)
     return data

@@ -136,7 +136,8 @@ def case_inputs_sha256(case: Case) -> str:
 
     Canonical: every float rounded to 12 significant figures, then ``json.dumps`` with sorted
     keys, no spaces, UTF-8. Two case files that differ only in units, comments, key order or
-    defaults written out give the same digest. ``case.entered`` is not part of it.
+    defaults written out give the same digest. ``case.entered`` is not part of it. Fields added
+    to the schema later are left out while absent, so older cases keep their digest.
 
     Parameters
     ----------
@@ -149,10 +150,29 @@ def case_inputs_sha256(case: Case) -> str:
         64 hexadecimal characters.
     """
     content = _rounded(case.model_dump(mode="json", exclude={"previous_revision"}))
+    _drop_absent_later_fields(content)
     text = json.dumps(
         content, sort_keys=True, separators=(",", ":"), ensure_ascii=False, allow_nan=False
     )
     return hashlib.sha256(text.encode("utf-8")).hexdigest()
+
+
+#: Fields added after digests were first issued, (path, absent value): left out of the digest
+#: when absent, so that a case written before them keeps its digest.
+_LATER_FIELDS = (
+    (("source",), None),
+    (("sources",), []),
+    (("sink", "base", "spreader"), None),
+)
+
+
+def _drop_absent_later_fields(content: dict) -> None:
+    for path, absent in _LATER_FIELDS:
+        node = content
+        for key in path[:-1]:
+            node = node.get(key) if isinstance(node, dict) else None
+        if isinstance(node, dict) and path[-1] in node and node[path[-1]] == absent:
+            del node[path[-1]]
 
 
 def _rounded(value):

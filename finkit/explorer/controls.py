@@ -9,7 +9,7 @@ import numpy as np
 
 from finkit.case.units import from_si
 
-__all__ = ["CONTROL_NAMES", "ControlSpec", "control_specs"]
+__all__ = ["CONTROL_NAMES", "ControlSpec", "control_specs", "source_power_control"]
 
 #: Every control an explorer may show, in display order (a case shows those that apply).
 CONTROL_NAMES = (
@@ -330,6 +330,26 @@ def control_specs(case) -> list[ControlSpec]:
             altitude,
         )
     )
+    if case.sources:
+        # several sources: one power control each (``power_<name>``)
+        for source in case.sources:
+            power = float(source.power)
+            step = 0.1 if power < 20 else 0.5
+            lo, hi = _slider_range(power, 0.1 * power, 3.0 * power, step)
+            specs.append(
+                ControlSpec(
+                    source_power_control(source.name),
+                    ("sources", source.name, "power"),
+                    f"Power, {source.name}",
+                    "power",
+                    "W",
+                    lo,
+                    hi,
+                    step,
+                    power,
+                )
+            )
+        return specs
     power = float(case.source.power)
     step = 0.1 if power < 20 else 0.5
     lo, hi = _slider_range(power, 0.1 * power, 3.0 * power, step)
@@ -339,19 +359,39 @@ def control_specs(case) -> list[ControlSpec]:
     return specs
 
 
+def source_power_control(name: str) -> str:
+    """Name of the power control of the source ``name`` (several sources) [-].
+
+    Parameters
+    ----------
+    name : str
+        The source's name in the case. [-]
+    """
+    return "power_" + "".join(c if c.isalnum() else "_" for c in name)
+
+
+def _item(node, key):
+    """``node[key]``, or the item of a list named ``key`` (a source); None when absent."""
+    if isinstance(node, dict):
+        return node.get(key)
+    if isinstance(node, list):
+        return next((x for x in node if isinstance(x, dict) and x.get("name") == key), None)
+    return None
+
+
 def _get(mapping: dict, path: tuple[str, ...]):
     node = mapping
     for key in path:
-        if not isinstance(node, dict) or key not in node:
+        node = _item(node, key)
+        if node is None:
             return None
-        node = node[key]
     return node
 
 
 def _set(mapping: dict, path: tuple[str, ...], value) -> None:
     node = mapping
     for key in path[:-1]:
-        node = node.setdefault(key, {})
+        node = _item(node, key) if isinstance(node, list) else node.setdefault(key, {})
     node[path[-1]] = value
 
 

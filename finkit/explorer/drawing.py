@@ -61,10 +61,22 @@ class _Drawing:
     def _draw_nodes(self, ax, result, colours) -> None:
         sol, inputs = result.solution, result.inputs
         node = inputs.limit_node
-        rows = [
-            ("Junction", sol.junction_temperature, node == "junction"),
-            ("Case", sol.case_temperature, node == "case"),
-            ("Base under source, centre", sol.source_base_centre_temperature, node == "base"),
+        if sol.sources is not None:
+            # several sources: the lead (governing) source's chain
+            k, s = inputs.lead_source, sol.sources
+            name = s.names[k]
+            rows = [
+                (f"Junction ({name})", s.junction[..., k], node == "junction"),
+                (f"Case ({name})", s.case[..., k], node == "case"),
+                (f"Base peak ({name})", s.base_peak[..., k], node == "base"),
+            ]
+        else:
+            rows = [
+                ("Junction", sol.junction_temperature, node == "junction"),
+                ("Case", sol.case_temperature, node == "case"),
+                ("Base under source, centre", sol.source_base_centre_temperature, node == "base"),
+            ]
+        rows += [
             ("Base, mean", sol.base_temperature, False),
             ("Fin tip", sol.fin_tip_temperature, False),
         ]
@@ -73,7 +85,7 @@ class _Drawing:
         rows.append(("Inlet air", sol.inlet_air_temperature, False))
         t_in = self._display(float(np.asarray(sol.inlet_air_temperature)), "temperature")
         values = [self._display(float(np.asarray(t)), "temperature") for _, t, _ in rows]
-        ok = result.results["temperature_margin"] >= inputs.required_margin
+        ok = result.results["temperature_margin"] >= result.results["required_margin"]
         colour = [
             (colours["primary"] if ok else colours["limit"])
             if is_node
@@ -108,6 +120,8 @@ class _Drawing:
             result.results["limit_node_temperature"] + ZERO_CELSIUS, "temperature"
         )
         margin = self._display(result.results["temperature_margin"], "difference")
+        if sol.sources is not None:
+            node = f"{node} of {sol.sources.names[inputs.lead_source]}"
         ax.set_title(
             f"{node.capitalize()} {node_t:.1f} {t_sym}, "
             f"{margin:.1f} {dt_sym} below the limit: {verdict} (nominal)",
@@ -250,8 +264,12 @@ class _Drawing:
     def _readout_html(self, result) -> str:
         r = result.results
         inputs = result.inputs
-        ok = r["temperature_margin"] >= inputs.required_margin
+        ok = r["temperature_margin"] >= r["required_margin"]
         node = inputs.limit_node
+        sources = getattr(result, "sources", ()) or ()
+        if sources:
+            # several sources: the governing one's node leads
+            node = f"{sources[0]['limit_node']} of {sources[0]['name']}"
         t_sym, dt_sym = self._symbol("temperature"), self._symbol("difference")
 
         def temp(celsius):
@@ -280,7 +298,7 @@ class _Drawing:
             (
                 "Sink resistance",
                 f"{r['sink_resistance']:.4g} K/W",
-                f"total {r['total_resistance']:.4g} K/W",
+                "" if r["total_resistance"] is None else f"total {r['total_resistance']:.4g} K/W",
             ),
         ]
         if r["volume_flow"] is not None:

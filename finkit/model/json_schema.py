@@ -56,6 +56,37 @@ def results_schema() -> dict[str, Any]:
     # governing, the whole), the way a reader of the schema sees it.
     from finkit.model.results import RESULTS_SCHEMA_VERSION
 
+    source = {
+        "type": "object",
+        "required": ["name", "status", "limit_node", "node_temperature", "margin"],
+        "properties": {
+            "name": {"type": "string"},
+            "status": _STATUS,
+            "limit_node": {"enum": ["junction", "case", "base"]},
+            **{
+                key: {"$ref": "#/$defs/value"}
+                for key in (
+                    "power",
+                    "base_mean",
+                    "base_peak",
+                    "case",
+                    "junction",
+                    "node_temperature",
+                    "limit_temperature",
+                    "margin",
+                    "required_margin",
+                    "air_offset",
+                    "allowable_power_alone",
+                    "centre_along",
+                    "centre_across",
+                    "peak_along",
+                    "peak_across",
+                )
+            },
+        },
+        "additionalProperties": False,
+    }
+    sources = {"type": "array", "minItems": 1, "items": source}
     condition = {
         "type": "object",
         "required": ["name", "status", "is_governing", "results", "warnings"],
@@ -69,6 +100,8 @@ def results_schema() -> dict[str, Any]:
             "combines": _TEXTS,
             "altitude": {"$ref": "#/$defs/value"},
             "results": {"$ref": "#/$defs/results"},
+            "governing_source": {"type": "string"},
+            "sources": sources,
             "warnings": _TEXTS,
         },
     }
@@ -97,7 +130,9 @@ def results_schema() -> dict[str, Any]:
         "description": (
             "Results of one finkit case. 'results' holds the governing condition's values (the "
             "one with the least margin), 'nominal' the case as stated, 'conditions' every "
-            "condition; every number is {value, unit}. Temperatures in degC, differences in K."
+            "condition; every number is {value, unit}. Temperatures in degC, differences in K. "
+            "With several sources, 'sources' holds each one against its own limit at the "
+            "governing condition (the governing source, 'governing_source', first)."
         ),
         "type": "object",
         "required": [
@@ -129,6 +164,8 @@ def results_schema() -> dict[str, Any]:
             "governing": governing,
             "warnings": _TEXTS,
             "results": {"$ref": "#/$defs/results"},
+            "governing_source": {"type": "string"},
+            "sources": sources,
             "nominal": {"$ref": "#/$defs/results"},
             "conditions": {"type": "array", "minItems": 1, "items": condition},
             "review": {"type": "object"},

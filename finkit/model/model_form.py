@@ -166,6 +166,17 @@ def model_form_check(result, max_cells: int = MODEL_FORM_MAX_CELLS) -> ModelForm
     from finkit.physics.conduction.solve import compare_with_chain, solve_plate_fin_conduction
 
     inputs, sol = result.inputs, result.solution
+    if inputs.sources is not None:
+        return ModelFormCheck(
+            is_covered=False,
+            reason=(
+                "the 3-D conduction model of finkit takes one centred source; with several "
+                "sources the base field is the exact superposition of the flux-channel series "
+                "(checked against a finite-volume solution in finkit's tests), and the "
+                "one-dimensional fins on a base of uniform coefficient remain the model's "
+                "assumption"
+            ),
+        )
     if not isinstance(inputs.geometry, PlateFinSink):
         return ModelFormCheck(
             is_covered=False,

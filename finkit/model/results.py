@@ -24,7 +24,9 @@ __all__ = [
     "RESULTS_SCHEMA_VERSION",
     "RESULT_UNITS",
     "ReviewResult",
+    "SOURCE_UNITS",
     "UncertaintyResult",
+    "source_json",
 ]
 
 #: Names and units of the results every results.json carries (null where not applicable).
@@ -59,6 +61,43 @@ RESULT_UNITS = {
     "power": "W",
     "inlet_temperature": "degC",
 }
+
+
+#: Units of each entry of a source's row (several sources on the base).
+SOURCE_UNITS = {
+    "power": "W",
+    "base_mean": "degC",
+    "base_peak": "degC",
+    "case": "degC",
+    "junction": "degC",
+    "node_temperature": "degC",
+    "limit_temperature": "degC",
+    "margin": "K",
+    "required_margin": "K",
+    "air_offset": "K",
+    "allowable_power_alone": "W",
+    "centre_along": "m",
+    "centre_across": "m",
+    "peak_along": "m",
+    "peak_across": "m",
+}
+
+
+def source_json(row: dict) -> dict[str, Any]:
+    """One source's row for results.json: text as it is, every number with its unit.
+
+    Parameters
+    ----------
+    row : dict
+        A row of :func:`finkit.model.design.source_rows`. [-]
+    """
+    out: dict[str, Any] = {}
+    for key, value in row.items():
+        if key in SOURCE_UNITS:
+            out[key] = {"value": _finite(value), "unit": SOURCE_UNITS[key]}
+        else:
+            out[key] = value
+    return out
 
 
 #: Version of the layout of ``results.json`` (2: a ``governing`` block, a ``conditions`` list,
@@ -131,6 +170,13 @@ class CaseResult:
     )
 
     @property
+    def sources(self) -> tuple[dict, ...]:
+        """With several sources: each one's row at the governing condition, the governing
+        source first (°C, K, W, m; see :func:`finkit.model.design.source_rows`); else empty."""
+        table = self.conditions
+        return table.governing_row.sources if table is not None else ()
+
+    @property
     def conditions(self):
         """Every condition, a :class:`~finkit.model.review.ScenarioTable` (None: single fins)."""
         return None if self.review is None else self.review.scenarios
@@ -172,6 +218,10 @@ class CaseResult:
             out["governing"] = table.governing_summary()
         out["warnings"] = list(self.warnings)
         out["results"] = _json_results(self.results)
+        if table is not None and table.governing_row.sources:
+            # several sources: each against its own limit at the governing condition
+            out["governing_source"] = table.governing_row.governing_source
+            out["sources"] = [source_json(row) for row in table.governing_row.sources]
         if table is not None:
             out["nominal"] = _json_results(table.rows[0].results)
             out["conditions"] = [row.to_json_dict() for row in table.rows]

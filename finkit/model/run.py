@@ -106,7 +106,8 @@ def run_case(case) -> CaseResult:
         uncertainty=_uncertainty(case, governing),
         solution=nominal.solution,
         allowable=nominal.allowable,
-        inputs=inputs,
+        # the nominal row's inputs: with several sources, its governing source leads
+        inputs=nominal.inputs,
         review=review,
     )
 

@@ -16,6 +16,7 @@ from finkit.errors import InputError, PropertyRangeError
 from finkit.model.design import (
     SinkInputs,
     allowable,
+    limit_node_temperature,
     solve,
 )
 from finkit.physics.geometry import PinFinSink, PlateFinSink
@@ -147,7 +148,7 @@ def sweep(inputs: SinkInputs, name: str, values) -> dict[str, np.ndarray]:
         "values": np.asarray(values, float),
         "junction_temperature": sol.junction_temperature,
         "base_temperature": sol.base_temperature,
-        "limit_node_temperature": sol.node_temperature(inputs.limit_node),
+        "limit_node_temperature": limit_node_temperature(swept, sol),
         "allowable_power": power,
         "sink_resistance": sol.sink_resistance,
         "fin_efficiency": sol.fin_efficiency,

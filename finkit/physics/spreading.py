@@ -193,7 +193,7 @@ def spreading_resistance_rectangular_series(
         None (default) chooses them per design from the plate-to-source ratio:
         ``M = 4 (2c)/(2a)`` and ``N = 4 (2d)/(2b)`` for the double sum (at least 24, at most
         :data:`SERIES_MAX_TERMS`) and 4 times more for the single sums, which truncates the
-        mean within -0.2 % and the centre within -0.5 % of the converged series (measured
+        mean within ±0.2 % and the centre within ±0.5 % of the converged series (measured
         against 2000 x 2000 terms for sources of 1-30 % of the plate edge, in the tests).
 
     Returns

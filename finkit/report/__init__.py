@@ -22,17 +22,27 @@ The public names of the note sections are re-exported here, so a template reads
 ``import finkit.report as report; report.plot_figures(result)``.
 """
 
-from finkit.report import figures, formatting, inputs, method, single_fin, studies, tables
+from finkit.report import (
+    figures,
+    formatting,
+    inputs,
+    method,
+    single_fin,
+    sources,
+    studies,
+    tables,
+)
 from finkit.report.figures import *  # noqa: F403
 from finkit.report.formatting import *  # noqa: F403
 from finkit.report.inputs import *  # noqa: F403
 from finkit.report.method import *  # noqa: F403
 from finkit.report.single_fin import *  # noqa: F403
+from finkit.report.sources import *  # noqa: F403
 from finkit.report.studies import *  # noqa: F403
 from finkit.report.tables import *  # noqa: F403
 
 __all__ = [
     name
-    for module in (formatting, inputs, tables, figures, method, studies, single_fin)
+    for module in (formatting, inputs, tables, figures, method, studies, single_fin, sources)
     for name in module.__all__
 ]

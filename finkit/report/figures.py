@@ -196,14 +196,13 @@ def plot_allowable_vs_inlet(result):
     matplotlib.figure.Figure
         Allowable power [W] against inlet air temperature [°C]. [-]
     """
-    from dataclasses import replace
-
+    from finkit.model.design import without_margin
     from finkit.model.sweeps import note_sweep
 
     inputs = result.inputs
     values = _inlet_range(result)
     with_margin = note_sweep(inputs, "inlet_temperature", values)
-    no_margin = note_sweep(replace(inputs, required_margin=0.0), "inlet_temperature", values)
+    no_margin = note_sweep(without_margin(inputs), "inlet_temperature", values)
     x = from_si(values, *_T)
     power = _f(result.solution.power)
     with _style():
@@ -763,7 +762,13 @@ def plot_figures(result) -> present.Fragment:
     ]
     if not _is_natural(result):
         parts += [present.heading("Fan and system curves", 3), figure_fan_system(result)]
-    parts += [present.heading("Temperature budget", 3), figure_resistance_breakdown(result)]
+    if getattr(result, "sources", ()):
+        from finkit.report.sources import figure_base_map
+
+        # several sources: no single chain to draw a budget of; the base map instead
+        parts += [present.heading("Base temperature under the sources", 3), figure_base_map(result)]
+    else:
+        parts += [present.heading("Temperature budget", 3), figure_resistance_breakdown(result)]
     if sweep_names(result):
         parts += [present.heading("Sweeps listed in the case", 3), sweep_figures(result)]
     return _join(*parts)

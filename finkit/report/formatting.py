@@ -202,11 +202,33 @@ def _is_plate(result) -> bool:
     return isinstance(result.inputs.geometry, PlateFinSink)
 
 
+def _governing_source(result) -> dict | None:
+    """The governing source's row of a case with several sources (None otherwise)."""
+    rows = getattr(result, "sources", ()) or ()
+    return rows[0] if rows else None
+
+
+def _node_cell(row, table) -> str:
+    """A condition's limit-node temperature; with several sources, the source named when it is
+    not the one the column header names (the governing condition's governing source)."""
+    text = _c(row.node_temperature)
+    source = getattr(row, "governing_source", None)
+    if source and source != table.governing_row.governing_source:
+        text += f" ({source})"
+    return text
+
+
 def _node(result) -> str:
+    source = _governing_source(result)
+    if source is not None:
+        return f"{source['name']} {source['limit_node']}"
     return result.inputs.limit_node
 
 
 def _node_name(result) -> str:
+    source = _governing_source(result)
+    if source is not None:
+        return f"{_NODE_NAMES[source['limit_node']]} ({source['name']})"
     return _NODE_NAMES[_node(result)]
 
 
@@ -275,6 +297,7 @@ def _limit_lines(ax, result, *, vertical=False, offset=0.0, label_node=True):
 
 #: Figures drawn at the governing condition (their caption names it when it is a scenario).
 _AT_GOVERNING = {
+    "base_map",
     "fin_profile",
     "allowable_vs_inlet",
     "vs_airflow",
@@ -287,6 +310,13 @@ _AT_GOVERNING = {
 
 def _caption(result, key: str, text: str) -> str:
     gov = getattr(result, "governing", None)
+    source = _governing_source(result)
+    if source is not None and key in ("allowable_vs_inlet", "vs_airflow", "fan_system"):
+        text += (
+            " With several sources every source's power is scaled alike and each is held to "
+            "its own limit; a change of slope marks where another source starts to govern. "
+            f"The limit lines are those of the governing source '{source['name']}'."
+        )
     if gov is not None and gov.name != "nominal" and (key in _AT_GOVERNING or key[:6] == "sweep:"):
         text += f" Operating condition: '{gov.name}' (governing)."
     return f"Figure {_figure_number(result, key)}. {text}"
@@ -299,7 +329,8 @@ def _figure_plan(result) -> list[str]:
     plan += [*_uncertainty_figure_keys(result), "fin_profile", "allowable_vs_inlet", "vs_airflow"]
     if not _is_natural(result):
         plan.append("fan_system")
-    plan.append("resistance_breakdown")
+    # several sources: no single chain for a budget; the base map instead
+    plan.append("base_map" if _governing_source(result) is not None else "resistance_breakdown")
     plan += [f"sweep:{name}" for name in sweep_names(result)]
     return plan
 

@@ -28,6 +28,7 @@ from finkit.report.formatting import (
     _join,
     _k,
     _node,
+    _node_cell,
     _node_name,
     _q,
     _review_of,
@@ -177,7 +178,7 @@ def _condition_rows(table, *, compact: bool) -> list[tuple]:
     for r in sorted(table.rows, key=lambda r: (not r.is_governing, r.name != "nominal")):
         name = r.name + (" (governing)" if r.is_governing else "")
         changes = ", ".join(r.changes) if r.changes else "as stated"
-        row = [name, changes, _c(r.inlet_temperature), _c(r.node_temperature)]
+        row = [name, changes, _c(r.inlet_temperature), _node_cell(r, table)]
         row += [_margin_text(r.margin, r.required_margin) if not compact else _k3(r.margin)]
         row += [_q(r.allowable_power, "power", "W"), present.badge(r.status == "pass")]
         rows.append(tuple(row))
@@ -260,7 +261,8 @@ def verdict_page(result, note_time: str = "") -> present.Fragment:
             present.badge(gov.margin >= gov.required_margin),
         ),
         (
-            "Allowable power (limit less the margin)",
+            "Allowable power (limit less the margin)"
+            + (", every source scaled alike" if gov.sources else ""),
             _q(gov.allowable_power, "power", "W"),
             f"stated {_q(gov.power, 'power', 'W')}",
             present.badge(gov.allowable_power >= gov.power),
@@ -308,6 +310,19 @@ def verdict_page(result, note_time: str = "") -> present.Fragment:
         )
     )
 
+    if gov.sources:
+        from finkit.report.sources import source_rows_table
+
+        parts.append(
+            _join(
+                present.text(
+                    f"Each source against its own limit at '{gov.name}'; the governing source "
+                    f"'{gov.governing_source}' leads (details in section 1):",
+                    css_class="fk-small",
+                ),
+                source_rows_table(result, compact=True),
+            )
+        )
     ranked = _ranked_warnings(result)
     if ranked:
         shown = ranked[:3]

@@ -80,6 +80,12 @@ _REFS = {
     "yovanovich_series": "Yovanovich, M.M., Muzychka, Y.S., Culham, J.R., Spreading resistance "
     "of isoflux rectangles and strips on compound flux channels, J. Thermophys. Heat Transfer "
     "13(4), 495-500, 1999.",
+    "muzychka_eccentric": "Muzychka, Y.S., Culham, J.R., Yovanovich, M.M., Thermal spreading "
+    "resistance of eccentric heat sources on rectangular flux channels, J. Electronic Packaging "
+    "125(2), 178-185, 2003.",
+    "muzychka_orthotropic": "Muzychka, Y.S., Culham, J.R., Yovanovich, M.M., Thermal spreading "
+    "resistance in compound and orthotropic systems, J. Thermophys. Heat Transfer 18(1), 45-51, "
+    "2004.",
     "atmosphere": "U.S. Standard Atmosphere, 1976, NOAA/NASA/USAF, Washington DC, 1976; "
     "ISO 2533:1975 Standard Atmosphere.",
     "coolprop": "Bell, I.H., Wronski, J., Quoilin, S., Lemort, V., Pure and pseudo-pure fluid "
@@ -116,8 +122,50 @@ def _reference_keys(result) -> list[str]:
         keys += ["gaddis", "kays_london", "incropera"]
     if not _is_natural(result) and result.inputs.bypass is not None:
         keys.append("bypass")
-    keys += ["yovanovich_series", "atmosphere", "coolprop"]
+    keys += ["yovanovich_series"]
+    if getattr(result.inputs, "sources", None) is not None:
+        keys += ["muzychka_eccentric", "muzychka_orthotropic"]
+    keys += ["atmosphere", "coolprop"]
     return list(dict.fromkeys(keys))
+
+
+def _several_sources_method(result, cite) -> list[Any]:
+    """The method paragraphs of a case with several sources (none otherwise)."""
+    if getattr(result.inputs, "sources", None) is None:
+        return []
+    return [
+        present.heading("Several sources on the base", 3),
+        present.text(
+            "The sink model takes the total power of all sources; it gives the mean temperature "
+            "of the finned face of the base, T_b = T_in + Q R_sink. Above it, the temperature "
+            "of the base on the source side is the superposition of the spreading solutions of "
+            "every source: each source is an isoflux rectangle placed where it sits on a "
+            "rectangular plate with adiabatic edges, cooled on the finned face by a uniform "
+            "coefficient h = 1/(R_sink A_base) (the boundary the single-source chain uses), "
+            f"solved as a Fourier cosine series {cite('yovanovich_series')} "
+            f"{cite('muzychka_eccentric')}. A base with different conductivities in its plane "
+            "and through its thickness (a vapour chamber or heat pipes, as effective "
+            "conductivities from the supplier) is the same problem on a plate of conductivity "
+            "sqrt(k_in k_through) and thickness t sqrt(k_in/k_through) "
+            f"{cite('muzychka_orthotropic')}. Each source's case sits on the base temperature "
+            "averaged over its footprint; its base limit node is the highest base temperature "
+            "found over its footprint."
+        ),
+        present.equation(
+            r"T_{case,i} = T_b + \sum_j G_{ij}\,Q_j + \Delta T_{air,i} + Q_i R_{int,i},\qquad "
+            r"T_{j,i} = T_{case,i} + Q_i R_{jc,i}"
+        ),
+        present.text(
+            "Air placement: the air is taken to warm linearly from inlet to outlet; the sink "
+            "resistance already holds the mean warming, so a source centred downstream of the "
+            "middle of the base adds (T_out - T_in)(x/L - 1/2); no credit is taken upstream "
+            "(conservative). In natural convection no placement term is added. Every source is "
+            "checked against its own limit; the governing source has the least margin over its "
+            "required margin. The allowable power scales every source by the same factor until "
+            "the governing one reaches its limit less its margin; the power of one source with "
+            "the others held is a linear estimate about the stated state."
+        ),
+    ]
 
 
 def _cite(result, key: str) -> str:
@@ -180,6 +228,7 @@ def method_section(result) -> present.Fragment:
             "stated power, and the allowable power, the power at which the limit node reaches "
             "the limit less the required margin."
         ),
+        *_several_sources_method(result, cite),
         present.heading("Air", 3),
         present.text(
             f"Dry air. The pressure is that of the standard atmosphere at the stated altitude "
@@ -439,13 +488,27 @@ def assumptions(result) -> present.Fragment:
         "Steady state at the stated power; no transients, no power cycling.",
         "All the power leaves through the heat sink: no heat through the board or the "
         "enclosure (conservative for the junction).",
-        f"Junction to case {_q(_f(result.solution.junction_to_case_resistance), *_R)} "
-        "is taken from the device data for the heat-flow path into the sink.",
-        "The source is centred on the base and heats its footprint uniformly. The case and "
-        "junction sit on the base temperature averaged over the footprint; the centre of the "
-        "footprint, the hottest point of the base, is reported too and is the base limit node "
-        "and the base touch temperature (spreading resistance to the centre from the exact "
-        "rectangular series).",
+        (
+            "Each source's junction-to-case resistance is taken from its device data for the "
+            "heat-flow path into the sink."
+            if getattr(result.inputs, "sources", None) is not None
+            else f"Junction to case {_q(_f(result.solution.junction_to_case_resistance), *_R)} "
+            "is taken from the device data for the heat-flow path into the sink."
+        ),
+        (
+            "Each source heats its footprint uniformly where it sits on the base; the base "
+            "field is the superposition of every source's spreading solution with a uniform "
+            "coefficient on the finned face. The case and junction of each source sit on the "
+            "base temperature averaged over its footprint; the highest base temperature over "
+            "the footprint is its base limit node, and the hottest of all is the base touch "
+            "temperature."
+            if getattr(result.inputs, "sources", None) is not None
+            else "The source is centred on the base and heats its footprint uniformly. The case "
+            "and junction sit on the base temperature averaged over the footprint; the centre "
+            "of the footprint, the hottest point of the base, is reported too and is the base "
+            "limit node and the base touch temperature (spreading resistance to the centre from "
+            "the exact rectangular series)."
+        ),
         "Fins are one-dimensional (temperature uniform across the fin thickness or pin "
         "section), with a uniform heat transfer coefficient over their surface, a constant "
         "conductivity, and an isothermal base at the mean base temperature (fin-efficiency "

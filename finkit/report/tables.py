@@ -11,6 +11,7 @@ from typing import Any
 import numpy as np
 
 from finkit.case.units import from_si
+from finkit.constants import ZERO_CELSIUS
 from finkit.report import present
 from finkit.report.formatting import (
     _NBSP,
@@ -23,11 +24,13 @@ from finkit.report.formatting import (
     _eff,
     _f,
     _figure,
+    _governing_source,
     _is_natural,
     _is_plate,
     _join,
     _k,
     _node,
+    _node_cell,
     _node_name,
     _pct,
     _q,
@@ -166,9 +169,42 @@ def node_table(result) -> present.Fragment:
     """
     sol = result.solution
     t_in = _f(sol.inlet_air_temperature)
+    source = _governing_source(result)
+    rows = _source_node_rows(result) if source is None else _several_sources_node_rows(source)
+    if source is not None:
+        rows.append(("Base, hottest point of any source", sol.source_base_centre_temperature, ""))
+    rows += [
+        ("Base, mean (fin roots)", sol.base_temperature, ""),
+        (
+            f"Fin tip (fin in the array, referred to the {_air(result)})",
+            sol.fin_tip_temperature,
+            "",
+        ),
+    ]
+    if not _is_natural(result):
+        rows.append(("Outlet air (mixed mean, through the fins)", sol.outlet_air_temperature, ""))
+    rows.append((f"{_air(result, True)}", sol.inlet_air_temperature, "stated"))
+    body = [(name, _c(_f(t)), _k(_f(t) - t_in), remark) for name, t, remark in rows]
+    power = _q(_f(sol.power), "power", "W")
+    caption = (
+        f"Node temperatures at the stated power {power}."
+        if source is None
+        else f"Node temperatures of the governing source '{source['name']}' and of the sink, all "
+        f"sources at their stated power ({power} in total)."
+    )
+    return present.html_table(
+        body,
+        header=("Node", "Temperature", f"Rise above {_air(result)}", "Remark"),
+        caption=caption,
+    )
+
+
+def _source_node_rows(result) -> list[tuple]:
+    """The nodes of the one source's chain (junction down to the base under it)."""
+    sol = result.solution
     node = _node(result)
     limit_text = f"limit node; limit {_c(result.inputs.limit_temperature)}"
-    rows = [
+    return [
         ("Junction", sol.junction_temperature, limit_text if node == "junction" else ""),
         ("Case", sol.case_temperature, limit_text if node == "case" else ""),
         (
@@ -181,22 +217,25 @@ def node_table(result) -> present.Fragment:
             sol.source_base_temperature,
             "the case sits on it",
         ),
-        ("Base, mean (fin roots)", sol.base_temperature, ""),
-        (
-            f"Fin tip (fin in the array, referred to the {_air(result)})",
-            sol.fin_tip_temperature,
-            "",
-        ),
     ]
-    if not _is_natural(result):
-        rows.append(("Outlet air (mixed mean, through the fins)", sol.outlet_air_temperature, ""))
-    rows.append((f"{_air(result, True)}", sol.inlet_air_temperature, "stated"))
-    body = [(name, _c(_f(t)), _k(_f(t) - t_in), remark) for name, t, remark in rows]
-    return present.html_table(
-        body,
-        header=("Node", "Temperature", f"Rise above {_air(result)}", "Remark"),
-        caption=f"Node temperatures at the stated power {_q(_f(sol.power), 'power', 'W')}.",
-    )
+
+
+def _several_sources_node_rows(source: dict) -> list[tuple]:
+    """The nodes of the governing source's chain (several sources; its row in °C)."""
+    zc = ZERO_CELSIUS
+    node = source["limit_node"]
+    limit_text = f"limit node; limit {_c(source['limit_temperature'] + zc)}"
+    name = source["name"]
+    return [
+        (f"Junction ({name})", source["junction"] + zc, limit_text if node == "junction" else ""),
+        (f"Case ({name})", source["case"] + zc, limit_text if node == "case" else ""),
+        (
+            f"Base under {name}, peak",
+            source["base_peak"] + zc,
+            limit_text if node == "base" else "",
+        ),
+        (f"Base under {name}, footprint mean", source["base_mean"] + zc, "the case sits on it"),
+    ]
 
 
 @_at_governing
@@ -217,10 +256,27 @@ def resistance_table(result) -> present.Fragment:
     power = _f(sol.power)
     total = _f(sol.total_resistance)
     sink_model = "convection and radiation" if _is_natural(result) else "convection"
+    if _governing_source(result) is not None:
+        return present.html_table(
+            [
+                (
+                    f"Sink to {_air(result)} R_sink",
+                    _res(_f(sol.sink_resistance)),
+                    _k(power * _f(sol.sink_resistance)),
+                    f"{sink_model}, all sources together",
+                )
+            ],
+            header=("Resistance", "Value", "ΔT at the total power", "Model"),
+            caption=(
+                "With several sources there is no single chain: each source's base, case and "
+                "junction follow from the superposed base field, its interface and its RθJC "
+                "(table of sources)."
+            ),
+        )
     chain = [
         ("Junction to case R_jc", sol.junction_to_case_resistance, "device data"),
         ("Interface R_int", sol.interface_resistance, "case file, over the footprint"),
-        ("Spreading R_sp", sol.spreading_resistance, "Song, Lee & Au"),
+        ("Spreading R_sp", sol.spreading_resistance, "rectangular series (Yovanovich et al.)"),
         ("Base conduction R_base", sol.base_conduction_resistance, "t_b / (k A_base)"),
         (f"Sink to {_air(result)} R_sink", sol.sink_resistance, sink_model),
     ]
@@ -343,7 +399,7 @@ def _scenario_section(result) -> list[Any]:
         if forced:
             cells.append(f"{_sig(from_si(row.volume_flow, 'volume_flow', 'CFM'), 3)}{_NBSP}CFM")
         cells += [
-            _c(row.node_temperature),
+            _node_cell(row, table),
             _k(row.margin),
             _q(row.allowable_power, "power", "W"),
             present.badge(row.status == "pass"),

@@ -88,29 +88,11 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
     if getattr(case, "kind", "heat-sink") != "heat-sink":
         return []
     flags: list[str] = []
-    src, air, sink = case.source, case.air, case.sink
+    air, sink = case.air, case.sink
 
     # 1. junction-to-case given as a still-air junction-to-ambient figure
-    r_jc = float(src.junction_to_case or 0.0)
-    basis = _attr(src, "junction_to_case_basis")
-    budget = case.limit.temperature - air.inlet_temperature
-    share = src.power * r_jc / budget if budget > 0 else 0.0
-    if basis == "theta-ja":
-        flags.append(
-            f"source.junction_to_case: {r_jc:.3g} K/W is stated as θJA (JESD51-2A still air), "
-            "which describes a test box, not the path through a heat sink; use RθJC "
-            "(JESD51-14) for the cooled side"
-        )
-    elif basis not in ("jesd51-14-top", "jesd51-14-bottom") and (
-        r_jc >= JUNCTION_TO_CASE_FLAG
-        or (case.limit.node == "junction" and share > JUNCTION_TO_CASE_BUDGET_SHARE)
-    ):
-        flags.append(
-            f"source.junction_to_case: {r_jc:.3g} K/W (drop {src.power * r_jc:.1f} K at "
-            f"{src.power:.3g} W, {100 * share:.0f} % of the rise to the limit) looks like a "
-            "still-air θJA rather than RθJC; θJA (JESD51-2A) is not a heat-sink path metric. "
-            "State source.junction_to_case_basis"
-        )
+    for path, src, limit in _sources_of(case):
+        flags += _junction_to_case_flags(path, src, limit, air.inlet_temperature)
 
     # 2. inlet air at room ambient with no preheat allowance stated
     t_in = air.inlet_temperature
@@ -162,6 +144,38 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
     return flags
 
 
+def _sources_of(case):
+    """(field path, source block, its limit) of each source of a heat-sink case."""
+    if getattr(case, "sources", None):
+        return [(f"sources[{i}]", s, s.limit or case.limit) for i, s in enumerate(case.sources)]
+    return [("source", case.source, case.limit)]
+
+
+def _junction_to_case_flags(path, src, limit, inlet_temperature) -> list[str]:
+    """A junction-to-case figure that is really a still-air θJA."""
+    r_jc = float(src.junction_to_case or 0.0)
+    basis = _attr(src, "junction_to_case_basis")
+    budget = limit.temperature - inlet_temperature
+    share = src.power * r_jc / budget if budget > 0 else 0.0
+    if basis == "theta-ja":
+        return [
+            f"{path}.junction_to_case: {r_jc:.3g} K/W is stated as θJA (JESD51-2A still air), "
+            "which describes a test box, not the path through a heat sink; use RθJC "
+            "(JESD51-14) for the cooled side"
+        ]
+    if basis not in ("jesd51-14-top", "jesd51-14-bottom") and (
+        r_jc >= JUNCTION_TO_CASE_FLAG
+        or (limit.node == "junction" and share > JUNCTION_TO_CASE_BUDGET_SHARE)
+    ):
+        return [
+            f"{path}.junction_to_case: {r_jc:.3g} K/W (drop {src.power * r_jc:.1f} K at "
+            f"{src.power:.3g} W, {100 * share:.0f} % of the rise to the limit) looks like a "
+            "still-air θJA rather than RθJC; θJA (JESD51-2A) is not a heat-sink path metric. "
+            f"State {path}.junction_to_case_basis"
+        ]
+    return []
+
+
 #: Ranges of air-cooled electronics heat sinks (low, high, SI unit, field); a value outside is
 #: flagged, not refused: typed with a unit it may be right, but it is more likely a slip of
 #: unit or of digits (common practice, no source).
@@ -198,15 +212,16 @@ def _implausible_flags(case) -> list[str]:
         "base_length": case.sink.base.length,
         "base_width": case.sink.base.width,
         "base_thickness": case.sink.base.thickness,
-        "footprint_length": case.source.footprint_length,
-        "footprint_width": case.source.footprint_width,
-        "power": case.source.power,
         "limit_temperature": case.limit.temperature,
         "thermal_conductivity": float(np.max(inputs.material.thermal_conductivity)),
     }
+    checked = [(name, value, PLAUSIBLE[name][3]) for name, value in values.items()]
+    for path, src, _ in _sources_of(case):
+        for name in ("footprint_length", "footprint_width", "power"):
+            checked.append((name, getattr(src, name), f"{path}.{name}"))
     out = []
-    for name, value in values.items():
-        low, high, unit, field_name = PLAUSIBLE[name]
+    for name, value, field_name in checked:
+        low, high, unit, _ = PLAUSIBLE[name]
         if value is None or low < value <= high:
             continue
         if unit == "K":

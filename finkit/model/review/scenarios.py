@@ -558,6 +558,9 @@ class ScenarioRow:
         Scenarios merged into this one [-].
     requirement_id : str or None
         Identifier of the requirement this condition checks [-].
+    sources : tuple of dict
+        With several sources, each one's temperatures against its own limit, the governing
+        source first (:func:`finkit.model.design.source_rows`; °C, K, W, m); empty otherwise.
     """
 
     name: str
@@ -593,11 +596,23 @@ class ScenarioRow:
     changes: tuple[str, ...] = ()
     combines: tuple[str, ...] = ()
     requirement_id: str | None = None
+    sources: tuple[dict, ...] = field(default=(), repr=False)
+
+    @property
+    def governing_source(self) -> str | None:
+        """Name of the source with the least surplus (None with one centred source) [-]."""
+        return self.sources[0]["name"] if self.sources else None
 
     def to_json_dict(self) -> dict:
         """One entry of ``results.json``'s ``conditions`` list (°C, K, W, SI flows)."""
-        from finkit.model.results import RESULT_UNITS
+        from finkit.model.results import RESULT_UNITS, source_json
 
+        extra = {}
+        if self.sources:
+            extra = {
+                "governing_source": self.governing_source,
+                "sources": [source_json(row) for row in self.sources],
+            }
         return {
             "name": self.name,
             "description": self.description,
@@ -611,6 +626,7 @@ class ScenarioRow:
                 k: {"value": None if v is None else float(v), "unit": RESULT_UNITS.get(k, "")}
                 for k, v in self.results.items()
             },
+            **extra,
             "warnings": list(self.warnings),
         }
 
@@ -757,15 +773,15 @@ def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None
         inlet_temperature=float(sol.inlet_air_temperature),
         pressure=float(np.max(inputs.air.pressure)),
         power=float(np.max(sol.power)),
-        limit_node=inputs.limit_node,
+        limit_node=state.limit_node,
         node_temperature=node_t,
-        junction_temperature=float(sol.junction_temperature),
-        source_base_temperature=float(sol.source_base_temperature),
+        junction_temperature=r["junction_temperature"] + ZERO_CELSIUS,
+        source_base_temperature=r["source_base_temperature"] + ZERO_CELSIUS,
         fin_tip_temperature=float(sol.fin_tip_temperature),
         outlet_air_temperature=float(sol.outlet_air_temperature),
-        limit_temperature=float(inputs.limit_temperature),
+        limit_temperature=r["limit_temperature"] + ZERO_CELSIUS,
         margin=r["temperature_margin"],
-        required_margin=float(inputs.required_margin),
+        required_margin=float(r["required_margin"]),
         status=state.status,
         allowable_power=r["allowable_power"],
         volume_flow=float(sol.volume_flow),
@@ -776,7 +792,7 @@ def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None
         sink_resistance=float(sol.sink_resistance),
         is_governing=False,
         warnings=state.warnings,
-        inputs=inputs,
+        inputs=inputs if state.inputs is None else state.inputs,
         results=r,
         solution=sol,
         allowable=state.allowable,
@@ -785,6 +801,7 @@ def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None
         changes=() if scenario is None else scenario_changes(scenario),
         combines=() if scenario is None else scenario.combines,
         requirement_id=None if scenario is None else scenario.requirement_id,
+        sources=state.sources,
     )
 
 

@@ -7,7 +7,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from finkit.model.design import SinkInputs, solve
+from finkit.model.design import SinkInputs, limit_node_temperature, solve
 from finkit.model.review.scenarios import (
     _allowable_power,
 )
@@ -164,7 +164,7 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
                 methods=dict(combo),
                 is_chosen=combo == chosen,
                 junction_temperature=float(sol.junction_temperature),
-                node_temperature=float(sol.node_temperature(inputs.limit_node)),
+                node_temperature=float(limit_node_temperature(inputs, sol)),
                 sink_resistance=float(sol.sink_resistance),
                 pressure_drop=float(sol.pressure_drop),
                 volume_flow=float(sol.volume_flow),

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import contextlib
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
@@ -38,6 +39,11 @@ class SinkSolution:
     case and junction sit on it); ``source_base_centre_temperature`` is its centre, the hottest
     point of the base (spreading resistance to the centre, ``psi_max``), and the ``base`` limit
     node.
+
+    With several sources on the base (:mod:`finkit.physics.sink.sources`), ``sources`` holds
+    each source's temperatures, and the four source nodes above hold the hottest value of any
+    source at that node (the case and junction of different sources may differ); the
+    resistances then describe the total power spread over the whole base.
     """
 
     power: np.ndarray
@@ -68,6 +74,7 @@ class SinkSolution:
     mass_flow: np.ndarray
     reynolds_number: np.ndarray
     warnings: tuple[str, ...] = field(default=())
+    sources: Any = None
 
     def node_temperature(self, node: str) -> np.ndarray:
         """Temperature of a limit node (``junction``, ``case`` or ``base``) [K].
