@@ -230,6 +230,8 @@ def _check(args) -> int:
     print(f"case {case.case_id}: status {status.upper()}")
     for line in _governing_lines(payload) + _source_lines(payload) + _condition_lines(payload):
         print(line)
+    if getattr(result, "transient", None) is not None:
+        print(result.transient.check_line())
     if payload.get("governing"):
         print(f"results at the governing condition '{payload['governing']['condition']}':")
     _print_table(None, status, _rows(payload), list(result.warnings))

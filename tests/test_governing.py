@@ -33,9 +33,10 @@ def raw(path: Path = PLATE_FAN) -> dict:
 
 
 def lean(data: dict) -> dict:
-    """A case without the slow blocks (Monte Carlo, measurements)."""
+    """A case without the slow blocks (Monte Carlo, measurements) and without the transient
+    (its event names scenarios that these tests replace)."""
     data = copy.deepcopy(data)
-    for key in ("tolerances", "monte_carlo", "measurements", "calibration"):
+    for key in ("tolerances", "monte_carlo", "measurements", "calibration", "transient"):
         data.pop(key, None)
     return data
 
@@ -326,9 +327,12 @@ def test_printed_plate_fin_note_has_the_verdict_on_page_one(printed_demo_note):
 
 
 @pytest.mark.slow
-def test_printed_plate_fin_note_fits_in_twelve_pages(printed_demo_note):
+def test_printed_plate_fin_note_fits_in_fifteen_pages(printed_demo_note):
+    # The steady note of this case printed on 12 A4 pages; its transient section (a fan fails
+    # on a hot day: verdict, node table, history, impedance and ladders, cautions) adds about
+    # a page and a half, and the page breaks around its figures the rest.
     _, pages = printed_demo_note
-    assert len(pages) <= 12, f"{len(pages)} A4 pages"
+    assert len(pages) <= 15, f"{len(pages)} A4 pages"
 
 
 def test_requirement_ids_reach_results_json():

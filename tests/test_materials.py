@@ -18,7 +18,7 @@ ALL = [get_material(key) for key in list_materials()]
 
 @pytest.mark.parametrize("material", ALL, ids=lambda m: m.key)
 def test_every_value_has_a_source(material):
-    expected = {"thermal_conductivity", "density"} | {
+    expected = {"thermal_conductivity", "density", "specific_heat"} | {
         f"emissivity:{finish}" for finish in material.emissivity
     }
     assert set(material.sources) == expected
@@ -88,6 +88,67 @@ def test_en12524_generic_values_match_ht(key, ht_name):
     assert material.thermal_conductivity == pytest.approx(k_material(ht_name), rel=1e-12)
     assert material.density == pytest.approx(rho_material(ht_name), rel=1e-12)
     assert "EN 12524" in material.sources["thermal_conductivity"]
+
+
+@pytest.mark.published
+@pytest.mark.parametrize(
+    ("key", "specific_heat"),
+    [
+        # Source: Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., Table A.1,
+        # c_p at 300 K, confirmed against a public reproduction of the table; 3 figures.
+        ("aluminium-pure", 903.0),
+        ("aluminium-2024-t6", 875.0),
+        ("copper-pure", 385.0),
+        ("stainless-steel-316", 468.0),
+        # Source: same table, from memory (not confirmed).
+        ("steel-plain-carbon", 434.0),
+        ("steel-aisi-1010", 434.0),
+        ("stainless-steel-304", 477.0),
+    ],
+)
+def test_incropera_table_a1_specific_heat(key, specific_heat):
+    material = get_material(key)
+    assert material.specific_heat == pytest.approx(specific_heat, rel=5e-3)
+    assert "Table A.1" in material.sources["specific_heat"]
+
+
+@pytest.mark.published
+@pytest.mark.parametrize(
+    ("key", "ht_name"),
+    [
+        ("aluminium-alloys-en12524", "Metals, aluminium alloys"),
+        ("copper-en12524", "Metals, copper"),
+        ("steel-en12524", "Metals, steel"),
+        ("stainless-steel-en12524", "Metals, stainless steel"),
+    ],
+)
+def test_en12524_specific_heat_matches_ht(key, ht_name):
+    # Cross-check: ht 1.2 ht.insulation.Cp_material (EN 12524:2000 values).
+    from ht.insulation import Cp_material
+
+    assert get_material(key).specific_heat == pytest.approx(Cp_material(ht_name), rel=1e-12)
+
+
+def test_every_built_in_material_has_a_specific_heat():
+    # Common practice, no source: metals near 300 K lie between copper (~385 J/kg K) and
+    # aluminium (~900-960 J/kg K for alloys).
+    for material in ALL:
+        assert 370.0 <= material.specific_heat <= 970.0
+
+
+def test_user_material_specific_heat():
+    material = get_material(
+        "my-alloy",
+        {"my-alloy": {"thermal_conductivity": 150.0, "specific_heat": 880.0, "source": "lab"}},
+    )
+    assert material.specific_heat == 880.0
+    assert material.sources["specific_heat"] == "lab"
+    assert (
+        get_material(
+            "my-other", {"my-other": {"thermal_conductivity": 150.0, "source": "lab"}}
+        ).specific_heat
+        is None
+    )
 
 
 @pytest.mark.published

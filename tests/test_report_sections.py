@@ -213,6 +213,8 @@ def test_template_places_the_section_after_the_review_checks():
     sources = [c.source.strip() for c in cells]
     start = sources.index("report.review_section(result)") + 1
     assert sources[start] == "report.figure_calibration(result)"
+    assert sources[start + 1] == "report.transient_section(result)"
+    start += 1
     assert sources[start + 1].startswith("## 3. Uncertainty and model form")
     assert sources[start + 2 : start + 6] == [
         "report.uncertainty_section(result)",

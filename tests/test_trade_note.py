@@ -118,7 +118,8 @@ def test_case_design_is_the_case_file(note):
 
 def _with_block(path: Path, block: dict) -> dict:
     data = copy.deepcopy(_raw(path))
-    for name in ("tolerances", "monte_carlo", "scenarios", "measurements", "calibration"):
+    for name in ("tolerances", "monte_carlo", "scenarios", "measurements", "calibration",
+                 "transient"):  # fmt: skip
         data.pop(name, None)
     data["trade_study"] = block
     return data

@@ -120,8 +120,32 @@ def _since(o: VariantOutcome, earlier: Path | None) -> str:
     return "; ".join(parts)
 
 
+def _transient_text(o: VariantOutcome) -> str:
+    """The time to the limit of a variant's ``transient`` entry, as ``finkit check`` says it;
+    empty without one."""
+    t = (o.results or {}).get("transient")
+    if not isinstance(t, dict):
+        return ""
+    event = t.get("event") or {}
+    label = f"{event.get('condition')} at {(event.get('time') or {}).get('value', 0):.0f} s"
+    time = (t.get("time_to_limit") or {}).get("value")
+    reached = f"{time:.0f} s" if t.get("is_limit_reached") and time is not None else "not reached"
+    text = f"time to limit after {label if event else 'the start'}: {reached}"
+    required = (t.get("required_response_time") or {}).get("value")
+    if required is not None:
+        text += f" (required response {required:.0f} s): {t.get('status')}"
+    return text
+
+
 def _reason(o: VariantOutcome) -> str:
-    """Why a variant has its status, in one line (the failing check, or the error)."""
+    """Why a variant has its status, in one line (the failing check, or the error); the time
+    to the limit after the case's event beside it when it has one."""
+    text = _steady_reason(o)
+    transient = _transient_text(o)
+    return f"{text}; {transient}" if text and transient else text or transient
+
+
+def _steady_reason(o: VariantOutcome) -> str:
     if o.status == "error":
         return f"not computed: {o.error or o.error_kind or 'unknown error'}"
     margin, condition = o.margin()

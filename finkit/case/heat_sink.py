@@ -60,6 +60,7 @@ from finkit.case.review_blocks import (
     ScenarioBlock,
     TouchBlock,
 )
+from finkit.case.transient_block import TransientBlock
 
 __all__ = [
     "Air",
@@ -486,6 +487,7 @@ class HeatSinkCase(Case):
     tolerances: TolerancesBlock | None = None
     monte_carlo: MonteCarloBlock | None = None
     trade_study: TradeStudyBlock | None = None
+    transient: TransientBlock | None = None
 
     @model_validator(mode="after")
     def _one_source_form(self):
@@ -529,6 +531,7 @@ class HeatSinkCase(Case):
                     ("tolerances", self.tolerances is not None),
                     ("monte_carlo", self.monte_carlo is not None),
                     ("trade_study", self.trade_study is not None),
+                    ("transient", self.transient is not None),
                 )
                 if given
             ]
@@ -581,6 +584,15 @@ class HeatSinkCase(Case):
                         f"scenario {scenario.name!r}: failed_fans must be below the fan count "
                         f"{fan.count} (got {scenario.failed_fans})"
                     )
+        if self.transient is not None:
+            names = ["nominal"] + [s.name for s in self.scenarios]
+            unknown = [
+                (f"transient.{where}", f"no condition named '{name}' (allowed: {', '.join(names)})")
+                for where, name in self.transient.condition_names()
+                if name not in names
+            ]
+            if unknown:
+                raise _fail_many(unknown)
         return self
 
     @field_validator("sweeps")

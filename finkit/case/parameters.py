@@ -55,6 +55,7 @@ CASE_KEYS = (
     "tolerances",
     "monte_carlo",
     "trade_study",
+    "transient",
     "fin",
     "conditions",
     "study",

@@ -116,6 +116,7 @@ VolumeFlow = _quantity("volume_flow", gt=0.0, bare_max=1.0, hint="CFM")
 CurveFlow = _quantity("volume_flow", ge=0.0, bare_max=1.0, hint="CFM")
 CurvePressure = _quantity("pressure", ge=0.0)
 Density = _quantity("density", gt=0.0)
+SpecificHeat = _quantity("specific_heat", gt=0.0)
 Emissivity = _quantity("dimensionless", gt=0.0, le=1.0)
 Factor = _quantity("dimensionless", gt=0.0)
 
@@ -201,9 +202,9 @@ class TitleBlock(_Model):
 class UserMaterial(_Model):
     """A material added, or a built-in one overridden, in the case file (``materials: {key: ...}``).
 
-    For a new key ``thermal_conductivity`` [W m⁻¹ K⁻¹] is required (``name`` and ``density``
-    [kg m⁻³] are optional); for a built-in key every value is optional and replaces the
-    built-in one.
+    For a new key ``thermal_conductivity`` [W m⁻¹ K⁻¹] is required (``name``, ``density``
+    [kg m⁻³] and ``specific_heat`` [J kg⁻¹ K⁻¹] are optional); for a built-in key every value
+    is optional and replaces the built-in one.
     ``emissivity`` maps a finish (``bare``, ``anodised-black``, ...) to its emissivity [-].
     ``source`` says where the values come from (printed in the note).
     """
@@ -211,5 +212,6 @@ class UserMaterial(_Model):
     name: Text | None = None
     thermal_conductivity: Conductivity | None = None
     density: Density | None = None
+    specific_heat: SpecificHeat | None = None
     emissivity: dict[Key, Emissivity] = {}
     source: Text

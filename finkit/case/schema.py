@@ -163,7 +163,10 @@ _LATER_FIELDS = (
     (("source",), None),
     (("sources",), []),
     (("sink", "base", "spreader"), None),
+    (("transient",), None),
 )
+#: The same for the fields of each entry under ``materials``.
+_LATER_MATERIAL_FIELDS = (("specific_heat", None),)
 
 
 def _drop_absent_later_fields(content: dict) -> None:
@@ -173,6 +176,10 @@ def _drop_absent_later_fields(content: dict) -> None:
             node = node.get(key) if isinstance(node, dict) else None
         if isinstance(node, dict) and path[-1] in node and node[path[-1]] == absent:
             del node[path[-1]]
+    for entry in (content.get("materials") or {}).values():
+        for name, absent in _LATER_MATERIAL_FIELDS:
+            if isinstance(entry, dict) and name in entry and entry[name] == absent:
+                del entry[name]
 
 
 def _rounded(value):

@@ -146,6 +146,9 @@ KINDS: dict[str, tuple[str, str, str]] = {
     "volume_flow": ("m^3/s", "a volume flow", "12 CFM"),
     "pressure": ("Pa", "a pressure", "0.2 inH2O"),
     "density": ("kg/m^3", "a density", "1.2 kg/m^3"),
+    "specific_heat": ("J/kg/K", "a specific heat", "900 J/kg/K"),
+    "heat_capacity": ("J/K", "a heat capacity", "15 J/K"),
+    "time": ("s", "a time", "120 s"),
     "dimensionless": ("", "a dimensionless number", "0.85"),
 }
 

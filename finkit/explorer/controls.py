@@ -33,7 +33,9 @@ CONTROL_NAMES = (
 )
 
 # Blocks that do not change the nominal result; left out of the live solve (kept when saving).
-_NOT_NOMINAL = ("scenarios", "touch", "tolerances", "monte_carlo", "trade_study", "sweeps")
+_NOT_NOMINAL = (
+    "scenarios", "touch", "tolerances", "monte_carlo", "trade_study", "sweeps", "transient",
+)  # fmt: skip
 
 # Unit symbols shown in control descriptions.
 _SYMBOL = {

@@ -154,6 +154,9 @@ class CaseResult:
         input flags.
     uncertainty : UncertaintyResult or None
         Monte Carlo and tornado over the case's tolerances, at the governing condition.
+    transient : finkit.model.transient.TransientResult or None
+        Time to the limit after the case's event and the thermal impedance (``transient:``
+        block); None without one.
     """
 
     case: Any
@@ -165,6 +168,7 @@ class CaseResult:
     inputs: SinkInputs | None = None
     review: ReviewResult | None = None
     uncertainty: UncertaintyResult | None = None
+    transient: Any = None
     created: str = field(
         default_factory=lambda: _dt.datetime.now(_dt.UTC).astimezone().isoformat(timespec="seconds")
     )
@@ -229,6 +233,8 @@ class CaseResult:
             out["review"] = self.review.to_json_dict()
         if self.uncertainty is not None:
             out["uncertainty"] = self.uncertainty.to_json_dict()
+        if self.transient is not None:
+            out["transient"] = self.transient.to_json_dict()
         return out
 
 

@@ -98,6 +98,10 @@ def run_case(case) -> CaseResult:
     if calibration is not None and calibration.reads_low:
         warnings.insert(0, calibration.warning)
     warnings += sweep_notes(case, governing.inputs, governing.solution)
+    from finkit.model.transient import run_transient
+
+    transient = run_transient(case, table)
+    warnings += list(transient.warnings) if transient is not None else []
     return CaseResult(
         case=case,
         status=governing.status,
@@ -109,6 +113,7 @@ def run_case(case) -> CaseResult:
         # the nominal row's inputs: with several sources, its governing source leads
         inputs=nominal.inputs,
         review=review,
+        transient=transient,
     )
 
 
@@ -116,7 +121,8 @@ def _scenario_table(case, *, fit_unapplied: bool = True):
     """(inputs, scenarios, calibration, table): every operating condition of a heat-sink case
     solved, calibrated as the case asks. ``fit_unapplied=False`` skips a calibration fit that
     the case does not apply (it changes no result; ``calibration`` is then None)."""
-    from finkit.model.review.scenarios import run_scenarios, scenarios_from_blocks
+    from finkit.model.review.scenario_defs import scenarios_from_blocks
+    from finkit.model.review.scenarios import run_scenarios
 
     inputs = sink_inputs(case)
     scenarios = scenarios_from_blocks(case.scenarios) if case.scenarios else ()

@@ -31,6 +31,7 @@ from finkit.report import (
     sources,
     studies,
     tables,
+    transient,
 )
 from finkit.report.figures import *  # noqa: F403
 from finkit.report.formatting import *  # noqa: F403
@@ -40,9 +41,20 @@ from finkit.report.single_fin import *  # noqa: F403
 from finkit.report.sources import *  # noqa: F403
 from finkit.report.studies import *  # noqa: F403
 from finkit.report.tables import *  # noqa: F403
+from finkit.report.transient import *  # noqa: F403
 
 __all__ = [
     name
-    for module in (formatting, inputs, tables, figures, method, studies, single_fin, sources)
+    for module in (
+        formatting,
+        inputs,
+        tables,
+        figures,
+        method,
+        studies,
+        single_fin,
+        sources,
+        transient,
+    )
     for name in module.__all__
 ]

@@ -43,8 +43,9 @@ __all__ = [
 
 #: Top-level keys whose changes are documentary, not inputs of the answer.
 _DOCUMENTARY = ("case_id", "title_block", "previous_revision")
-#: Blocks left out of the re-solves of the attribution (sampling, not the deterministic answer).
-_NOT_SOLVED = ("tolerances", "monte_carlo")
+#: Blocks left out of the re-solves of the attribution (sampling, not the deterministic answer;
+#: the transient, which does not change the steady governing margin).
+_NOT_SOLVED = ("tolerances", "monte_carlo", "transient")
 #: At most this many changed inputs are attributed one by one.
 MAX_ATTRIBUTED = 30
 
@@ -676,7 +677,7 @@ def compare(
         "old_template": a.template,
         "new_template": b.template,
     }
-    physical = [c for c in inputs if not c.is_documentary]
+    physical = [c for c in inputs if not c.is_documentary and c.path[:1] != ("transient",)]
     if not physical and results:
         notes.append(
             "results changed although no input did: "

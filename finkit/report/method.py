@@ -485,7 +485,12 @@ def assumptions(result) -> present.Fragment:
         A bulleted list. [-]
     """
     items = [
-        "Steady state at the stated power; no transients, no power cycling.",
+        (
+            "Steady state at the stated power for every steady check; the transient section "
+            "states its own assumptions."
+            if getattr(result, "transient", None) is not None
+            else "Steady state at the stated power; no transients, no power cycling."
+        ),
         "All the power leaves through the heat sink: no heat through the board or the "
         "enclosure (conservative for the junction).",
         (

@@ -17,21 +17,23 @@ temperatures) for every variant; no result is scaled by a fixed multiplier.
 
 The functions return frozen dataclasses; temperatures are absolute [K] throughout.
 
-Modules: :mod:`~finkit.model.review.scenarios`, :mod:`~finkit.model.review.touch`,
+Modules: :mod:`~finkit.model.review.scenario_defs`, :mod:`~finkit.model.review.scenarios`,
+:mod:`~finkit.model.review.touch`,
 :mod:`~finkit.model.review.calibration`, :mod:`~finkit.model.review.spread`,
 :mod:`~finkit.model.review.flags`. Their public names are re-exported here; code inside finkit
 imports a name from the module that defines it.
 """
 
-from finkit.model.review import calibration, flags, scenarios, spread, touch
+from finkit.model.review import calibration, flags, scenario_defs, scenarios, spread, touch
 from finkit.model.review.calibration import *  # noqa: F403
 from finkit.model.review.flags import *  # noqa: F403
+from finkit.model.review.scenario_defs import *  # noqa: F403
 from finkit.model.review.scenarios import *  # noqa: F403
 from finkit.model.review.spread import *  # noqa: F403
 from finkit.model.review.touch import *  # noqa: F403
 
 __all__ = [
     name
-    for module in (scenarios, touch, calibration, spread, flags)
+    for module in (scenario_defs, scenarios, touch, calibration, spread, flags)
     for name in getattr(module, "__all__", ())
 ]

@@ -1,4 +1,4 @@
-"""Solid materials for fins and heat-sink bases: conductivity, density and emissivity by finish.
+"""Solid materials for fins and heat-sink bases: conductivity, density, specific heat, emissivity.
 
 Every number carries its source text (``Material.sources``). Conductivities are room-temperature
 (about 300 K) values; alloy values vary with temper and supplier by about ±5-10 %, so a case
@@ -70,8 +70,12 @@ class Material:
     emissivity_range : Mapping[str, tuple[float, float]]
         (low, high) emissivity per finish, same keys as ``emissivity`` [-].
     sources : Mapping[str, str]
-        Source text per value: keys ``"thermal_conductivity"``, ``"density"`` and
-        ``"emissivity:<finish>"`` for each finish (covering the typical value and the range).
+        Source text per value: keys ``"thermal_conductivity"``, ``"density"``,
+        ``"specific_heat"`` and ``"emissivity:<finish>"`` for each finish (covering the typical
+        value and the range).
+    specific_heat : float or None
+        Specific heat capacity near 300 K [J kg⁻¹ K⁻¹], for transients; ``None`` only for a
+        user material that does not give it.
 
     Raises
     ------
@@ -89,14 +93,15 @@ class Material:
     emissivity: Mapping[str, float]
     emissivity_range: Mapping[str, tuple[float, float]]
     sources: Mapping[str, str]
+    specific_heat: float | None = None
 
     def __post_init__(self):
         key = self.key
         if not _is_key(key):
             raise InputError(f"material key = {key!r} must be lowercase words joined by hyphens")
-        for field in ("thermal_conductivity", "density"):
+        for field in ("thermal_conductivity", "density", "specific_heat"):
             value = getattr(self, field)
-            if field == "density" and value is None:
+            if field != "thermal_conductivity" and value is None:
                 continue
             if isinstance(value, bool) or not isinstance(value, Real) or not 0.0 < value < inf:
                 raise InputError(f"{key}: {field} = {value!r} must be a finite number > 0")
@@ -124,7 +129,9 @@ class Material:
                 )
             emissivity[finish] = float(value)
         sources = dict(self.sources)
-        needed = ["thermal_conductivity"] + (["density"] if self.density is not None else [])
+        needed = ["thermal_conductivity"] + [
+            field for field in ("density", "specific_heat") if getattr(self, field) is not None
+        ]
         needed += [f"emissivity:{finish}" for finish in emissivity]
         missing = [name for name in needed if not str(sources.get(name, "")).strip()]
         if missing:
@@ -141,6 +148,7 @@ class Material:
         thermal_conductivity: float | None = None,
         density: float | None = None,
         emissivity: Mapping[str, float] | None = None,
+        specific_heat: float | None = None,
     ) -> Material:
         """A copy with some values replaced, each replaced value credited to ``source``.
 
@@ -157,6 +165,8 @@ class Material:
         emissivity : Mapping[str, float], optional
             New emissivity per finish [-]; its range becomes (value, value). New finishes
             are added.
+        specific_heat : float, optional
+            New specific heat [J kg⁻¹ K⁻¹].
 
         Returns
         -------
@@ -166,8 +176,17 @@ class Material:
         if not str(source).strip():
             raise InputError(f"{self.key}: an override needs a source text")
         sources = dict(self.sources)
-        values = {"thermal_conductivity": self.thermal_conductivity, "density": self.density}
-        for field, value in (("thermal_conductivity", thermal_conductivity), ("density", density)):
+        values = {
+            "thermal_conductivity": self.thermal_conductivity,
+            "density": self.density,
+            "specific_heat": self.specific_heat,
+        }
+        given = {
+            "thermal_conductivity": thermal_conductivity,
+            "density": density,
+            "specific_heat": specific_heat,
+        }
+        for field, value in given.items():
             if value is not None:
                 values[field] = value
                 sources[field] = source
@@ -317,20 +336,65 @@ _STAINLESS = {
 
 
 def _material(key, name, k, k_source, rho, rho_source, finishes):
+    cp, cp_source = _SPECIFIC_HEAT[key]
     return Material(
         key=key,
         name=name,
         thermal_conductivity=k,
         density=rho,
+        specific_heat=cp,
         emissivity={finish: v[0] for finish, v in finishes.items()},
         emissivity_range={finish: v[1] for finish, v in finishes.items()},
         sources={
             "thermal_conductivity": k_source,
             "density": rho_source,
+            "specific_heat": cp_source,
             **{f"emissivity:{finish}": v[2] for finish, v in finishes.items()},
         },
     )
 
+
+# Specific heat near 300 K [J kg⁻¹ K⁻¹] and its source, by material key. Alloy values differ
+# from the pure metal by a few per cent, which matters little beside the other inputs of a
+# transient (heat transfer coefficient, device capacitance).
+_CP_CONFIRMED = (
+    "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and Mass Transfer, 6th ed. "
+    "(2007), Table A.1, c_p at 300 K (confirmed against a public reproduction of the table)"
+)
+_CP_MEMORY = _INCROPERA_A1_MEMORY.replace("Table A.1, 300 K", "Table A.1, c_p at 300 K")
+_ASM_CP = (
+    "ASM Handbook Vol. 2, Properties and Selection: Nonferrous Alloys (1990), typical specific "
+    "heat at 20-100 °C (from memory; not confirmed)"
+)
+_CDA_CP = (
+    "Copper Development Association alloy data, 0.092 Btu/lb °F at 68 °F = 385 J/kg K "
+    "(from memory; not confirmed); equal to pure copper in Incropera et al., 6th ed., Table A.1"
+)
+_EN12524_CP = _EN12524 + ", specific heat c_p (checked against ht 1.2 here)"
+_SPECIFIC_HEAT = {
+    "aluminium-pure": (903.0, _CP_CONFIRMED),
+    "aluminium-1050": (900.0, _ASM_CP),
+    "aluminium-1100": (904.0, _ASM_CP),
+    "aluminium-6063-t5": (900.0, _ASM_CP + "; pure aluminium 903 J/kg K in Incropera Table A.1"),
+    "aluminium-6063-t6": (900.0, _ASM_CP + "; pure aluminium 903 J/kg K in Incropera Table A.1"),
+    "aluminium-6061-t6": (896.0, _ASM_CP + "; pure aluminium 903 J/kg K in Incropera Table A.1"),
+    "aluminium-2024-t6": (875.0, _CP_CONFIRMED),
+    "aluminium-a380-die-cast": (
+        963.0,
+        "die-casting alloy data sheets, 0.230 Btu/lb °F at 212 °F (from memory; not confirmed)",
+    ),
+    "copper-pure": (385.0, _CP_CONFIRMED),
+    "copper-c11000": (385.0, _CDA_CP),
+    "copper-c10100": (385.0, _CDA_CP),
+    "steel-plain-carbon": (434.0, _CP_MEMORY),
+    "steel-aisi-1010": (434.0, _CP_MEMORY),
+    "stainless-steel-304": (477.0, _CP_MEMORY),
+    "stainless-steel-316": (468.0, _CP_CONFIRMED),
+    "aluminium-alloys-en12524": (880.0, _EN12524_CP),
+    "copper-en12524": (380.0, _EN12524_CP),
+    "steel-en12524": (450.0, _EN12524_CP),
+    "stainless-steel-en12524": (460.0, _EN12524_CP),
+}
 
 _MATERIALS = (
     _material(
@@ -443,7 +507,7 @@ def list_materials(user_materials: Mapping | None = None) -> tuple[str, ...]:
     return tuple(sorted({**_BY_KEY, **_checked_user_materials(user_materials)}))
 
 
-_USER_FIELDS = ("name", "thermal_conductivity", "density", "emissivity", "source")
+_USER_FIELDS = ("name", "thermal_conductivity", "density", "specific_heat", "emissivity", "source")
 
 
 def _from_user_entry(key: str, entry: Mapping) -> Material:
@@ -466,20 +530,24 @@ def _from_user_entry(key: str, entry: Mapping) -> Material:
             thermal_conductivity=entry.get("thermal_conductivity"),
             density=entry.get("density"),
             emissivity=emissivity,
+            specific_heat=entry.get("specific_heat"),
         )
     if entry.get("thermal_conductivity") is None:
         raise InputError(f"user_materials[{key!r}]: thermal_conductivity is required")
     density = entry.get("density")
+    specific_heat = entry.get("specific_heat")
     return Material(
         key=key,
         name=entry.get("name") or key,
         thermal_conductivity=entry["thermal_conductivity"],
         density=density,
+        specific_heat=specific_heat,
         emissivity=emissivity,
         emissivity_range={finish: (value, value) for finish, value in emissivity.items()},
         sources={
             "thermal_conductivity": source,
             **({"density": source} if density is not None else {}),
+            **({"specific_heat": source} if specific_heat is not None else {}),
             **{f"emissivity:{finish}": source for finish in emissivity},
         },
     )
@@ -522,7 +590,8 @@ def get_material(key: str, user_materials: Mapping | None = None) -> Material:
     user_materials : Mapping[str, Material or Mapping], optional
         Materials by key. A :class:`Material` replaces a built-in entry of the same key
         whole. A plain mapping (the case-file form: ``name``, ``thermal_conductivity``
-        [W m⁻¹ K⁻¹], ``density`` [kg m⁻³], ``emissivity`` {finish: value} [-], ``source``)
+        [W m⁻¹ K⁻¹], ``density`` [kg m⁻³], ``specific_heat`` [J kg⁻¹ K⁻¹], ``emissivity``
+        {finish: value} [-], ``source``)
         overrides only the values it gives when the key is built in (each credited to
         ``source``), and otherwise defines a new material (``thermal_conductivity`` required;
         each given emissivity has the range (value, value)).
