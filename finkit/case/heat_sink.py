@@ -377,11 +377,34 @@ class Flow(_Model):
         return _given(self, _FLOW_FORMS)[0]
 
 
+#: Smallest clearance [m] taken as a bypass gap; below it (and above 0) a gap carries no air
+#: worth modelling and its flow network is ill-conditioned (common practice, no source).
+SMALLEST_GAP = 5e-5
+
+
 class Bypass(_Model):
-    """Clearance [m] between the sink and the duct: on each side, and above the fin tips."""
+    """Clearance [m] between the sink and the duct: on each side, and above the fin tips.
+
+    A gap is 0 (the duct touches the sink) or at least :data:`SMALLEST_GAP`.
+    """
 
     side_gap: Gap = 0.0
     top_gap: Gap = 0.0
+
+    @model_validator(mode="after")
+    def _real_gaps(self):
+        problems = [
+            (
+                name,
+                f"{_fmt(getattr(self, name), 'length')} is too small to carry air; write 0 mm "
+                f"for no gap, or at least {_fmt(SMALLEST_GAP, 'length')}",
+            )
+            for name in ("side_gap", "top_gap")
+            if 0.0 < getattr(self, name) < SMALLEST_GAP
+        ]
+        if problems:
+            raise _fail_many(problems)
+        return self
 
 
 class Air(_Model):

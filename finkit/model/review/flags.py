@@ -81,6 +81,8 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
           ``air.preheat_allowance`` stated: using room ambient for the sink's inlet air
           under-predicts when upstream parts preheat it.
         * ``sink.heat_transfer_coefficient_override`` -- h typed in by hand instead of computed.
+        * ``air.flow.approach_velocity`` or ``air.flow.volume_flow`` with no ``air.bypass``
+          block: the sink is taken as fully ducted, optimistic for a sink in an open stream.
         * ``sink.fins`` -- natural convection with a fin gap below :data:`TIGHT_GAP_RATIO` of
           the Bar-Cohen & Rohsenow optimum spacing (at the solved base temperature) or below
           :data:`TIGHT_GAP_FLOOR`.
@@ -137,9 +139,19 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
                 f"(Bar-Cohen & Rohsenow optimum about {s_opt * 1e3:.1f} mm at a "
                 f"{excess:.0f} K base rise); the channels choke the buoyant flow and collect dust"
             )
-    # 5. fin gaps and fins that cannot be made (forced and natural convection)
+    # 5. a given approach velocity or volume flow with nothing said about bypass
+    flow = _attr(air, "flow")
+    given = [name for name in ("approach_velocity", "volume_flow") if _attr(flow, name) is not None]
+    if given and _attr(air, "bypass") is None:
+        flags.append(
+            f"air.flow.{given[0]}: no air.bypass is stated, so the sink is taken as fully "
+            "ducted (all the air goes through the fins); a sink in an open stream or with "
+            "clearance to the walls sees much less. State air.bypass (side_gap and top_gap, "
+            "0 mm when the duct really touches the fins)"
+        )
+    # 6. fin gaps and fins that cannot be made (forced and natural convection)
     flags += _manufacturing_flags(case)
-    # 6. magnitudes outside air cooling of electronics: typed with a unit, but likely a slip
+    # 7. magnitudes outside air cooling of electronics: typed with a unit, but likely a slip
     flags += _implausible_flags(case)
     return flags
 

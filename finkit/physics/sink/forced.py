@@ -6,6 +6,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from finkit.constants import STANDARD_GRAVITY
 from finkit.physics.correlations import forced
 from finkit.physics.fins import analytic as fins
 from finkit.physics.fins.analytic.groups import one_dimensional_fin_warnings
@@ -32,8 +33,17 @@ from finkit.physics.sink.results import (
 from finkit.physics.spreading import spreading_resistance_rectangular_series
 
 __all__ = [
+    "RICHARDSON_LIMIT",
     "base_spreading",
+    "buoyancy_warnings",
 ]
+
+#: Richardson number ``Gr_L/Re_L^2`` above which buoyancy is not negligible beside the forced
+#: flow. Forced convection dominates for ``Gr/Re^2 << 1``, free convection for ``>> 1`` and
+#: both matter near 1 (Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed.,
+#: section 9.9; from memory); finkit warns an order of magnitude early (common practice, no
+#: source).
+RICHARDSON_LIMIT = 0.1
 
 
 # --------------------------------------------------------------------------------------
@@ -265,6 +275,47 @@ def _chain(geometry, material, source: HeatSource, sink_resistance):
     return spread.average, spread.one_dimensional, spread.maximum
 
 
+def buoyancy_warnings(base_excess, film_temperature, length, velocity) -> tuple[str, ...]:
+    """A warning when buoyancy is not negligible beside the forced flow (low flow) [-].
+
+    ``Ri = Gr_L/Re_L^2 = g beta dT L / V^2`` with ``beta = 1/T_film`` (ideal gas), ``dT`` the
+    mean base excess over the inlet air, ``L`` the base length along the flow and ``V`` the
+    channel velocity. finkit's forced-convection h leaves free convection out; above
+    :data:`RICHARDSON_LIMIT` the warning says so (no credit is taken for the buoyant flow,
+    which is conservative where it assists and may not be where it opposes).
+
+    Parameters
+    ----------
+    base_excess : float or array_like
+        Mean base temperature less the inlet air temperature [K].
+    film_temperature : float or array_like
+        Film temperature, inlet plus half the excess [K].
+    length : float or array_like
+        Base length along the flow [m].
+    velocity : float or array_like
+        Air velocity between the fins [m s⁻¹].
+    """
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ri = (
+            STANDARD_GRAVITY
+            * np.asarray(base_excess, float)
+            / np.asarray(film_temperature, float)
+            * np.asarray(length, float)
+            / np.asarray(velocity, float) ** 2
+        )
+    ri = ri[np.isfinite(ri)]
+    if ri.size == 0 or np.max(ri) <= RICHARDSON_LIMIT:
+        return ()
+    high = float(np.max(ri))
+    return (
+        f"mixed convection: Richardson number Gr_L/Re_L^2 = {high:.2g} is above "
+        f"{RICHARDSON_LIMIT:g}: at this low flow buoyancy is not negligible beside the forced "
+        "flow, and finkit's forced-convection h leaves it out (no credit taken: conservative "
+        "where buoyancy assists, not where it opposes the flow); treat the result as an "
+        "estimate and check with a test",
+    )
+
+
 def base_spreading(geometry, material, source: HeatSource, sink_resistance):
     """Spreading resistance of the source into the base, exact rectangular series [K W⁻¹].
 
@@ -463,6 +514,9 @@ def _solve_forced(
         if np.all(np.abs(base_excess - previous) <= FILM_TOLERANCE):
             break
     mass_flow = inlet.density * airflow.sink_volume_flow
+    buoyancy = buoyancy_warnings(
+        base_excess, t_in + 0.5 * base_excess, geometry.base_length, conv.channel_velocity
+    )
     return _assemble(
         power=q,
         air=air,
@@ -482,5 +536,5 @@ def _solve_forced(
         airflow=airflow,
         channel_velocity=conv.channel_velocity,
         reynolds=conv.reynolds_number,
-        warnings=conv.warnings + airflow.warnings,
+        warnings=conv.warnings + airflow.warnings + buoyancy,
     )
