@@ -98,10 +98,13 @@ def run_case(case) -> CaseResult:
     if calibration is not None and calibration.reads_low:
         warnings.insert(0, calibration.warning)
     warnings += sweep_notes(case, governing.inputs, governing.solution)
-    from finkit.model.transient import run_transient
+    transient = None
+    if getattr(case, "transient", None) is not None:
+        # imported only when asked: the ODE and fitting modules of scipy cost 0.3 s to load
+        from finkit.model.transient import run_transient
 
-    transient = run_transient(case, table)
-    warnings += list(transient.warnings) if transient is not None else []
+        transient = run_transient(case, table)
+        warnings += list(transient.warnings)
     return CaseResult(
         case=case,
         status=governing.status,
