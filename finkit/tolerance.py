@@ -76,6 +76,11 @@ TOLERANCE_INPUTS: dict[str, _InputSpec] = {
     ),
 }
 
+#: Tolerance inputs that describe one source's chain or the base's one conductivity: not
+#: available with several sources (each source has its own interface and RθJC; the base field
+#: takes its conductivity from the layout).
+ONE_SOURCE_TOLERANCES = ("interface_resistance", "junction_to_case", "thermal_conductivity")
+
 
 # --------------------------------------------------------------------------------------
 # Tolerances

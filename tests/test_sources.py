@@ -301,9 +301,17 @@ def test_check_lists_each_source(demo_case_file):
         ),
         (
             lambda c: c.update(
-                tolerances={"power": {"distribution": "normal", "relative": "3 %", "source": "x"}}
+                measurements=[
+                    {
+                        "name": "lab",
+                        "node": "case",
+                        "measured_temperature": "60 degC",
+                        "power": "30 W",
+                        "inlet_temperature": "25 degC",
+                    }
+                ]
             ),  # fmt: skip
-            "tolerances",
+            "measurements",
             "not yet available with several sources",
         ),
     ],
@@ -351,3 +359,44 @@ def test_the_quick_power_override_is_refused_with_several_sources(board):
     with pytest.raises(InputError) as info:
         case_from_parameters(board, power="50 W")
     assert "parameters.power" in str(info.value) and "several sources" in str(info.value)
+
+
+def test_monte_carlo_with_several_sources_checks_each_against_its_own_limit(board):
+    # Identity: with zero-width tolerances the samples are the deterministic state; with
+    # scatter, the share above the limit is counted per source and for any source.
+    case = copy.deepcopy(board)
+    case["tolerances"] = {
+        "heat_transfer": {"distribution": "normal", "relative": "15 %", "source": "test"},
+        "power": {"distribution": "normal", "relative": "10 %", "source": "test"},
+    }
+    case["monte_carlo"] = {"samples": 4000, "seed": 3}
+    result = run_case(load_case(case))
+    mc = result.uncertainty.monte_carlo
+    gov = result.conditions.governing_row
+    assert mc.nominal_limit_node_temperature == pytest.approx(
+        gov.results["limit_node_temperature"] + ZERO_CELSIUS, abs=1e-9
+    )
+    shares = mc.source_exceedance
+    assert set(shares) == {"processor", "regulator", "switch", "any source"}
+    assert max(v for k, v in shares.items() if k != "any source") <= shares["any source"]
+    assert shares["any source"] <= sum(v for k, v in shares.items() if k != "any source")
+    # The governing source's share is the headline probability of exceeding the limit.
+    assert shares[gov.governing_source] == pytest.approx(mc.probability_exceeding_limit)
+    payload = result.to_json_dict()["uncertainty"]
+    assert payload["probability_exceeding_limit_any_source"]["unit"] == "1"
+
+
+def test_one_source_tolerances_are_refused_with_several_sources(board):
+    case = copy.deepcopy(board)
+    case["tolerances"] = {
+        "interface_resistance": {
+            "distribution": "uniform",
+            "low": "0.02 K/W",
+            "high": "0.06 K/W",
+            "source": "test",
+        }
+    }
+    with pytest.raises(CaseError) as info:
+        load_case(case)
+    assert "tolerances.interface_resistance" in str(info.value)
+    assert "not yet available with several sources" in str(info.value)

@@ -551,18 +551,24 @@ class HeatSinkCase(Case):
                 for name, given in (
                     ("measurements", bool(self.measurements)),
                     ("calibration", self.calibration is not None),
-                    ("tolerances", self.tolerances is not None),
-                    ("monte_carlo", self.monte_carlo is not None),
                     ("trade_study", self.trade_study is not None),
                     ("transient", self.transient is not None),
                 )
                 if given
             ]
+            if self.tolerances is not None:
+                from finkit.tolerance import ONE_SOURCE_TOLERANCES
+
+                unavailable += [
+                    f"tolerances.{name}"
+                    for name in ONE_SOURCE_TOLERANCES
+                    if getattr(self.tolerances, name) is not None
+                ]
             if unavailable:
                 raise _fail(
-                    f"{', '.join(unavailable)}: not yet available with several sources (their "
-                    "tolerances and fits act on one source's chain); run them on a "
-                    "single-source case of the same sink, or remove them"
+                    f"{', '.join(unavailable)}: not yet available with several sources (they "
+                    "act on one source's chain); run them on a single-source case of the same "
+                    "sink, or remove them"
                 )
         return self
 

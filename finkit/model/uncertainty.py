@@ -54,11 +54,12 @@ from typing import NamedTuple
 import numpy as np
 
 from finkit.errors import InputError
-from finkit.model.design import SinkInputs, solve
+from finkit.model.design import SinkInputs, limit_node_temperature, solve
 from finkit.physics.sink.inputs import FanDriven, GivenVelocity, GivenVolumeFlow, NaturalConvection
 from finkit.physics.sink.results import SinkSolution
 from finkit.tolerance import (
     DISTRIBUTIONS,
+    ONE_SOURCE_TOLERANCES,
     TOLERANCE_INPUTS,
     Tolerance,
 )
@@ -86,6 +87,12 @@ def _check_tolerances(inputs: SinkInputs, tolerances: Mapping[str, Tolerance]) -
         if name not in TOLERANCE_INPUTS:
             raise InputError(
                 f"tolerances: unknown input {name!r}; allowed: {', '.join(TOLERANCE_INPUTS)}"
+            )
+        if inputs.sources is not None and name in ONE_SOURCE_TOLERANCES:
+            allowed = [n for n in TOLERANCE_INPUTS if n not in ONE_SOURCE_TOLERANCES]
+            raise InputError(
+                f"tolerances.{name}: not yet available with several sources; allowed with "
+                f"them: {', '.join(allowed)}"
             )
         if not isinstance(tol, Tolerance):
             raise InputError(f"tolerances.{name}: expected a Tolerance, got {type(tol).__name__}")
@@ -230,6 +237,13 @@ class MonteCarloResult:
         Seed of the generator (None when a Generator was passed).
     method : str
         ``random`` or ``latin-hypercube``.
+    source_exceedance : dict of str to float
+        With several sources: the share of the samples in which each source's limit node is
+        above its own limit, and under ``"any source"`` the share in which at least one is;
+        empty otherwise [-]. ``limit_node_temperature`` is then the governing source's.
+    nominal_limit_node_temperature : float or None
+        The limit node of the deterministic solution, when it is not the solution's own
+        (several sources: the governing source's) [K].
     """
 
     samples: dict[str, np.ndarray]
@@ -247,6 +261,8 @@ class MonteCarloResult:
     tolerances: dict[str, Tolerance] = field(default_factory=dict)
     seed: int | None = None
     method: str = "random"
+    source_exceedance: dict[str, float] = field(default_factory=dict)
+    nominal_limit_node_temperature: float | None = None
 
     QUANTITIES = (
         "junction_temperature",
@@ -270,6 +286,8 @@ class MonteCarloResult:
 
     def _nominal(self, quantity: str) -> float:
         if quantity == "limit_node_temperature":
+            if self.nominal_limit_node_temperature is not None:
+                return float(self.nominal_limit_node_temperature)
             return float(self.nominal.node_temperature(self.limit_node))
         return float(getattr(self.nominal, quantity))
 
@@ -397,6 +415,8 @@ class MonteCarloResult:
             out[f"p{p:g}_junction_temperature"] = v
         for p, v in self.percentiles("base_temperature").items():
             out[f"p{p:g}_base_temperature"] = v
+        for name, share in self.source_exceedance.items():
+            out[f"probability_exceeding_limit_{name.replace(' ', '_')}"] = share
         return out
 
 
@@ -487,13 +507,29 @@ def monte_carlo(
         return np.array(np.broadcast_to(np.asarray(a, dtype=float), (count,)))
 
     sampled = {k: full(v) for k, v in values.items()}
+    exceedance: dict[str, float] = {}
+    nominal_node = None
+    if inputs.sources is not None:
+        # several sources: each against its own limit, sample by sample
+        over = np.stack(
+            [
+                np.broadcast_to(np.asarray(sol.sources.node(node), float)[..., k], (count,)) > limit
+                for k, (node, limit, _) in enumerate(inputs.limits)
+            ],
+            axis=-1,
+        )
+        exceedance = {
+            name: float(np.mean(over[:, k])) for k, name in enumerate(inputs.sources.names)
+        }
+        exceedance["any source"] = float(np.mean(np.any(over, axis=-1)))
+        nominal_node = float(limit_node_temperature(inputs, nominal))
     return MonteCarloResult(
         samples=sampled,
         junction_temperature=full(sol.junction_temperature),
         case_temperature=full(sol.case_temperature),
         base_temperature=full(sol.base_temperature),
         source_base_temperature=full(sol.source_base_temperature),
-        limit_node_temperature=full(sol.node_temperature(inputs.limit_node)),
+        limit_node_temperature=full(limit_node_temperature(inputs, sol)),
         pressure_drop=full(sol.pressure_drop),
         volume_flow=full(sol.volume_flow),
         nominal=nominal,
@@ -503,6 +539,8 @@ def monte_carlo(
         tolerances=dict(tolerances),
         seed=None if isinstance(seed, np.random.Generator) else seed,
         method=method,
+        source_exceedance=exceedance,
+        nominal_limit_node_temperature=nominal_node,
     )
 
 
@@ -594,7 +632,7 @@ def sensitivity(
         raise InputError(f"coverage: got {coverage!r}; must be in (0, 1]")
     _check_tolerances(inputs, tolerances)
     nominal_sol = solve(inputs)
-    t_nominal = float(nominal_sol.node_temperature(inputs.limit_node))
+    t_nominal = float(limit_node_temperature(inputs, nominal_sol))
     names = [
         n
         for n in TOLERANCE_INPUTS
@@ -614,7 +652,7 @@ def sensitivity(
         column[2 * i : 2 * i + 2] = lo_hi
         values[name] = column
     sol = solve(_with_values(inputs, values))
-    t = np.broadcast_to(np.asarray(sol.node_temperature(inputs.limit_node), float), (2 * m,))
+    t = np.broadcast_to(np.asarray(limit_node_temperature(inputs, sol), float), (2 * m,))
     bars = [
         TornadoBar(
             name=name,

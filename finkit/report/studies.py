@@ -320,6 +320,16 @@ def uncertainty_section(result) -> present.Fragment:
             f"{_c(limit)} itself."
         )
     )
+    if mc.source_exceedance:
+        shares = ", ".join(
+            f"{name} {_sig(share * 100, 2)} %"
+            for name, share in mc.source_exceedance.items()
+            if name != "any source"
+        )
+        statement += (
+            f" Each source against its own limit, share of the samples above it: {shares}; "
+            f"at least one source: {_sig(mc.source_exceedance['any source'] * 100, 2)} %."
+        )
     return _join(
         present.heading("Uncertainty from the input tolerances", 3),
         present.text(statement),
@@ -659,6 +669,14 @@ def model_form_section(result) -> present.Fragment:
 
     heading = present.heading("Model-form check: 1-D chain against 3-D conduction", 3)
     check = model_form_check(result)
+    if not check.is_covered and getattr(result.inputs, "sources", None) is not None:
+        return _join(
+            heading,
+            present.text(
+                f"Not covered for this case: {check.reason}. Judge that assumption on its own; "
+                "a source near a base edge or over few fins is where it is least exact."
+            ),
+        )
     if not check.is_covered:
         return _join(
             heading,
