@@ -146,7 +146,8 @@ def _governing_lines(payload: dict) -> list[str]:
             f"margin {margin:.3g} K, {against}"
         )
     if None not in (allowed, power):
-        lines.append(f"  allowable power {allowed:.3g} W against the stated {power:.3g} W")
+        alike = ", every source scaled alike" if payload.get("governing_source") else ""
+        lines.append(f"  allowable power {allowed:.3g} W against the stated {power:.3g} W{alike}")
     calibration = (payload.get("review") or {}).get("calibration") or {}
     other = calibration.get("governing_other")
     if other:
