@@ -24,7 +24,7 @@ from pathlib import Path
 
 from finkit.errors import FinkitError
 
-STARTERS = ("plate-fin", "pin-fin", "natural", "single-fin")
+STARTERS = ("plate-fin", "pin-fin", "natural", "sources", "single-fin")
 
 EXIT_PASS, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 

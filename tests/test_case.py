@@ -45,8 +45,14 @@ def errors_of(data) -> list[str]:
 
 def test_there_are_demo_cases_and_starters():
     assert {p.stem for p in DEMOS} >= {"nb200-plate-fan", "nb300-pin-ducted", "nb100-natural",
-                                       "nb-fin-study"}  # fmt: skip
-    assert {p.stem for p in STARTERS} == {"plate-fin", "pin-fin", "natural", "single-fin"}
+                                       "nb-fin-study", "nb400-board-sources"}  # fmt: skip
+    assert {p.stem for p in STARTERS} == {
+        "plate-fin",
+        "pin-fin",
+        "natural",
+        "sources",
+        "single-fin",
+    }
 
 
 @pytest.mark.parametrize("path", DEMOS + STARTERS, ids=lambda p: p.stem)
