@@ -24,6 +24,8 @@ from finkit.physics.sink.inputs import (
     ModelOptions,
     _passage_thickness,
 )
+
+__all__ = ["natural_heat_rate"]
 from finkit.physics.sink.results import (
     _above_base,
 )
@@ -139,6 +141,37 @@ def _natural_heat_rate(
         optimum_spacing=np.asarray(nat.optimum_spacing, float),
         elenbaas=np.asarray(nat.elenbaas, float),
     )
+
+
+def natural_heat_rate(geometry, material, air: Air, base_excess, options: ModelOptions, flow):
+    """Heat leaving the sink by natural convection and radiation at a base excess [W].
+
+    The state of the natural-convection model of ``flow.orientation`` (convective and
+    radiative heat, h, efficiencies); used on its own by the natural-convection solve and
+    beside a weak forced flow by :mod:`finkit.physics.sink.mixed`.
+
+    Parameters
+    ----------
+    geometry : PlateFinSink
+        The sink [-].
+    material : SinkMaterial
+        Conductivity [W m⁻¹ K⁻¹] and emissivity [-].
+    air : Air
+        Inlet air and surroundings [K], pressure [Pa].
+    base_excess : array_like
+        Mean base temperature less the inlet air temperature [K].
+    options : ModelOptions
+        Model options [-].
+    flow : NaturalConvection
+        The orientation [-].
+    """
+    natural.natural_orientation_check(flow.orientation)
+    if not isinstance(geometry, PlateFinSink):
+        raise InputError(
+            "sink.type: natural convection is covered for plate fins only "
+            "(no published pin-fin array method in finkit)"
+        )
+    return _natural_heat_rate(geometry, material, air, base_excess, options)
 
 
 def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperature, upper=400.0):
