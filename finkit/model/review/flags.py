@@ -147,7 +147,8 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
             f"air.flow.{given[0]}: no air.bypass is stated, so the sink is taken as fully "
             "ducted (all the air goes through the fins); a sink in an open stream or with "
             "clearance to the walls sees much less. State air.bypass (side_gap and top_gap, "
-            "0 mm when the duct really touches the fins)"
+            "0 mm when the duct really touches the fins; free_stream: true for a sink "
+            "standing in an open stream)"
         )
     # 6. fin gaps and fins that cannot be made (forced and natural convection)
     flags += _manufacturing_flags(case)
