@@ -132,9 +132,16 @@ def sink_flow_free_stream_lee(
         V_app (A_fr + A_b) = Q_hs + V_b A_b             (continuity)
 
     For a sink whose loss is a constant multiple ``K`` of the channel head and ``A_ch = A_fr``
-    this is Lee's closed form (with the bypass loss-free)::
+    the first two lines give ``V_b = V_ch sqrt(1 + K)`` and continuity then Lee's closed form
+    (with the bypass loss-free)::
 
         V_ch / V_app = (1 + A_b/A_fr) / (1 + (A_b/A_fr) sqrt(1 + K))
+
+    The form is confirmed three ways: the derivation above; Lee's printed closed form, recalled
+    from memory **[R]** (the paper itself was not available); and an independent public
+    heat-sink evaluation script (function ``evalHSIncomingAir``, found by code search) that
+    solves the same balance as a quadratic in ``V_app`` for a duct: ``V_b² = V_ch² + 2 dp_hs /
+    rho`` with continuity over the duct; the tests reproduce that quadratic.
 
     **Free stream** (``A_b -> inf``): the bypass stream is the undisturbed stream,
     ``V_b = V_app``, and the balance reduces to::
@@ -157,7 +164,11 @@ def sink_flow_free_stream_lee(
       the wake of a bluff body, which would draw more air through the fins, is not credited.
     * The air leaving the fins is taken to lose its whole channel velocity head
       ``rho V_ch²/2`` (Lee's form), on top of the exit loss already in ``dp_hs``; the velocity
-      is that of the narrowest section.
+      is that of the narrowest section. Read strictly, a Kays & London exit coefficient ``K_e``
+      already carries the stream from ``V_ch`` down to ``sigma V_ch`` over the frontal area,
+      which would leave only ``sigma² rho V_ch²/2``; Lee's full head is the larger loss. (The
+      duct-with-gaps model of :func:`split_bypass` balances the static pressure drops without
+      this head, so at very wide gaps it sends more air through the fins than this model.)
     * No air leaks out of the open top or sides of the fins along the flow (a 1-D balance
       cannot see it); leakage lowers the flow over the downstream part of the fins, so a long
       sink (length well above its fin height) is optimistic in this respect.
