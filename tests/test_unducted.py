@@ -375,3 +375,21 @@ def test_the_trade_study_and_the_explorer_take_a_free_stream_case(stream_case):
     explorer.set(fin_count=12)  # denser fins resist more: more of the stream goes round
     assert explorer.result.results["bypass_fraction"] > share
     assert len(explorer.png()) > 10_000
+
+
+def test_a_pin_fin_sink_in_a_free_stream(demo_case_file):
+    data = yaml.safe_load(demo_case_file("nb300-pin-ducted").read_text(encoding="utf-8"))
+    data["air"]["flow"] = {"approach_velocity": "3 m/s"}
+    data["air"]["bypass"] = {"free_stream": True}
+    free = run_case(load_case(data))
+    data["air"].pop("bypass")
+    ducted = run_case(load_case(data))
+    g = free.inputs.geometry
+    # the channel velocity is that of the narrowest section between the pins of a row
+    narrowest = g.frontal_area * g.min_free_flow_ratio
+    assert float(free.solution.channel_velocity) == pytest.approx(
+        float(free.solution.sink_volume_flow) / narrowest, rel=1e-12
+    )
+    assert 0.0 < free.results["bypass_fraction"] < 1.0
+    assert free.results["sink_resistance"] > ducted.results["sink_resistance"]
+    assert is_fin_tip_exposed(free.inputs)
