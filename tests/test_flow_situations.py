@@ -67,3 +67,46 @@ def test_a_gap_too_small_to_carry_air_is_refused_in_one_line(pin_case):
     message = str(info.value)
     assert message.startswith("air.bypass.side_gap: 0.01 mm is too small to carry air")
     assert "\n" not in message
+
+
+def test_the_gap_model_says_how_much_more_fin_flow_it_gives_than_lees_balance():
+    # The duct-with-gaps network against Lee's (1995) balance for the same gaps and total flow
+    # (finkit.physics.airflow.sink_flow_free_stream_lee with a finite bypass area): the
+    # warning's figure is their ratio, rounded to 10 %; a stated zero gap gives no warning.
+    import numpy as np
+
+    from finkit.physics.airflow import sink_flow_free_stream_lee
+    from finkit.physics.geometry import PlateFinSink
+    from finkit.physics.properties.air import air_properties
+    from finkit.physics.sink.airflow import sink_pressure_drop, solve_airflow
+    from finkit.physics.sink.inputs import Air, Bypass, GivenVelocity
+
+    sink = PlateFinSink(
+        base_width=0.04,
+        base_length=0.04,
+        base_thickness=0.003,
+        fin_count=9,
+        fin_thickness=0.001,
+        fin_height=0.015,
+    )
+    air = Air(inlet_temperature=318.15)
+    gap = 0.005
+    flow = solve_airflow(sink, GivenVelocity(2.5), air, Bypass(side_gap=gap, top_gap=gap))
+    props = air_properties(318.15, 101325.0)
+    lee = sink_flow_free_stream_lee(
+        2.5,
+        0.04 * 0.015,
+        (0.04 - 9 * 0.001) * 0.015,
+        lambda q: sink_pressure_drop(
+            sink, q, props.density, props.dynamic_viscosity, is_shrouded=False
+        ),
+        props.density,
+        bypass_area=2 * gap * 0.015 + gap * (0.04 + 2 * gap),
+    )
+    ratio = float(flow.sink_volume_flow / lee.sink_volume_flow)
+    assert ratio > 1.1
+    (text,) = [w for w in flow.warnings if "duct-with-gaps" in w]
+    assert f"about {10 * round(10 * (ratio - 1)):.0f} % more air" in text
+    closed = solve_airflow(sink, GivenVelocity(2.5), air, Bypass(side_gap=0.0, top_gap=0.0))
+    assert not any("duct-with-gaps" in w for w in closed.warnings)
+    assert np.isfinite(ratio)
