@@ -347,9 +347,15 @@ class Fan(_Model):
 
 
 class Natural(_Model):
-    """Natural convection; ``orientation`` of the fins (only vertical fins in this version)."""
+    """Natural convection (plate fins); ``orientation`` of the sink in still air.
 
-    orientation: Literal["vertical-fins"]
+    ``vertical-fins``: base vertical, fins vertical, air rising along the fin length.
+    ``horizontal-base-fins-up``: base horizontal, fins standing up from it. Other orientations
+    (fins hanging down, horizontal fins on a vertical base) have no correlation finkit could
+    confirm and are refused (``finkit.physics.correlations.natural.SUPPORTED_ORIENTATIONS``).
+    """
+
+    orientation: Literal["vertical-fins", "horizontal-base-fins-up"]
 
 
 class Flow(_Model):

@@ -83,9 +83,9 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
         * ``sink.heat_transfer_coefficient_override`` -- h typed in by hand instead of computed.
         * ``air.flow.approach_velocity`` or ``air.flow.volume_flow`` with no ``air.bypass``
           block: the sink is taken as fully ducted, optimistic for a sink in an open stream.
-        * ``sink.fins`` -- natural convection with a fin gap below :data:`TIGHT_GAP_RATIO` of
-          the Bar-Cohen & Rohsenow optimum spacing (at the solved base temperature) or below
-          :data:`TIGHT_GAP_FLOOR`.
+        * ``sink.fins`` -- natural convection, vertical fins, with a fin gap below
+          :data:`TIGHT_GAP_RATIO` of the Bar-Cohen & Rohsenow optimum spacing (at the solved
+          base temperature) or below :data:`TIGHT_GAP_FLOOR`.
     """
     if getattr(case, "kind", "heat-sink") != "heat-sink":
         return []
@@ -115,7 +115,13 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
         )
 
     # 4. tight fin gaps in natural convection
-    if _attr(air, "flow", "natural") is not None and sink.type == "plate-fin":
+    # (the optimum is Bar-Cohen & Rohsenow's, for vertical fins only)
+    natural_flow = _attr(air, "flow", "natural")
+    if (
+        natural_flow is not None
+        and sink.type == "plate-fin"
+        and (_attr(natural_flow, "orientation") == "vertical-fins")
+    ):
         if inputs is None:
             from finkit.model.design import sink_inputs
 
