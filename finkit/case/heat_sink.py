@@ -153,7 +153,8 @@ class SourceOnBase(_Model):
     """One of several sources on the base (``sources:``), placed where it sits.
 
     ``centre_along`` is the distance of the footprint centre from the inlet edge of the base
-    (in natural convection: from the lower edge), ``centre_across`` from the left side edge
+    (natural convection, vertical fins: from the lower edge; fins up on a horizontal base:
+    from the edge where ``base.length`` starts), ``centre_across`` from the left side edge
     looking downstream (upward) [m]. ``footprint_length`` lies along the flow. Without its own
     ``limit`` the case's ``limit`` applies to the source.
     """
