@@ -217,9 +217,10 @@ def nusselt_horizontal_fin_array_jones_smith(rayleigh_spacing):
     Ra_S^{0.252}``, the upward-facing heated-plate law ``Nu = 0.54 Ra^{1/4}`` (Incropera et
     al. 6th ed. Eq. 9.30; ``ht.conv_free_immersed.Nu_horizontal_plate_McAdams``) that a widely
     spaced array is expected to approach (the length scales differ, so only the law's form and
-    coefficient are compared). Three recalled constants reproducing 0.54 to 0.4 % is strong
+    coefficient are compared). The four recalled constants reproducing both the exponent
+    (``1 - 0.44·1.7 = 0.252`` against 1/4) and the coefficient (0.538 against 0.54) is strong
     evidence that they are the published ones; no printed Jones & Smith data point was available
-    to test against.
+    to test against (docs/methods.md g4).
 
     References
     ----------
