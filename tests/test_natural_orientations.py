@@ -1,6 +1,6 @@
 """Natural convection in other orientations (issue 18): horizontal base with the fins up.
 
-What could be checked, and against what (docs/methods.md g4, g5):
+What could be checked, and against what (docs/methods.md g5, g6):
 
 * Jones & Smith (1970), plate fins on a horizontal base facing up. The original paper could not
   be read here and no printed data point of it was available, so no test holds the correlation
@@ -161,6 +161,32 @@ def test_vertical_fins_is_the_default_and_unchanged(demo_case_file):
     assert float(default.power) == float(vertical.power)
     assert np.isfinite(default.elenbaas) and np.isnan(up.elenbaas)
     assert float(up.power) != pytest.approx(float(vertical.power), rel=1e-3)
+
+
+@pytest.mark.identity
+def test_mixed_convection_credit_fins_up_tends_to_the_fins_up_model(up_result):
+    # A weak horizontal stream over a fins-up sink with the free-convection credit: as the flow
+    # stops the combination tends to the natural-convection model of that orientation (Jones &
+    # Smith), not to the vertical one (Churchill's rule, tests/test_mixed_convection.py).
+    from finkit.physics.sink import GivenVelocity
+    from finkit.physics.sink.inputs import FreeConvectionCredit
+
+    case, _ = up_result
+    inputs = sink_inputs(case)
+    credit = FreeConvectionCredit(
+        orientation="horizontal-base-fins-up", forced_flow="horizontal", radiation=True
+    )
+    mixed = solve(
+        replace(
+            inputs,
+            flow=GivenVelocity(0.005),
+            options=replace(inputs.options, free_convection=credit),
+        )
+    )
+    up = solve(inputs)
+    vertical = solve(replace(inputs, flow=NaturalConvection("vertical-fins")))
+    assert float(mixed.sink_resistance) == pytest.approx(float(up.sink_resistance), rel=5e-3)
+    assert float(up.sink_resistance) != pytest.approx(float(vertical.sink_resistance), rel=0.02)
 
 
 def test_horizontal_case_has_one_correlation_no_spread(up_result):

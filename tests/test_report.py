@@ -575,3 +575,59 @@ def test_review_section_shows_scenarios_with_the_governing_one(results):
     assert "Spread between accepted correlations" in html
     headline = str(report.headline(result))
     assert "governing one is &#x27;hot-air&#x27;" in headline
+
+
+@pytest.mark.identity
+def test_coarser_equation_glyphs_stay_within_half_a_step_of_matplotlibs_outline():
+    # The note's equations are written with glyph outlines on a coarser grid (smaller HTML);
+    # each coordinate must stay within half a grid step of matplotlib's own outline, and the
+    # command structure (what is drawn) must be the same (SVG 1.1: a repeated command letter
+    # may be left out).
+    import io
+    import re
+    import xml.etree.ElementTree as ET
+    from urllib.parse import unquote
+
+    import matplotlib
+    from matplotlib.font_manager import FontProperties
+    from matplotlib.mathtext import math_to_image
+
+    from finkit.report import present
+
+    latex = r"\eta_f = \dfrac{\tanh(m L_c)}{m L_c}"
+    uri = present._equation_uri(latex, 13.0)
+    coarse = ET.fromstring(unquote(uri.split(",", 1)[1]).encode("utf-8"))
+    buffer = io.BytesIO()
+    with matplotlib.rc_context(
+        {"mathtext.fontset": "stix", "svg.fonttype": "path", "svg.hashsalt": "finkit"}
+    ):
+        math_to_image(f"${latex}$", buffer, prop=FontProperties(size=13.0), format="svg")
+    fine = ET.fromstring(buffer.getvalue())
+    ns = "{http://www.w3.org/2000/svg}"
+
+    def glyphs(root):
+        return {
+            p.get("id"): p
+            for p in root.iter(f"{ns}path")
+            if p.get("id") and "scale" in (p.get("transform") or "")
+        }
+
+    fine_glyphs, coarse_glyphs = glyphs(fine), glyphs(coarse)
+    assert fine_glyphs.keys() == coarse_glyphs.keys() and len(fine_glyphs) >= 5
+    step = present._GLYPH_STEP
+    for name, path in fine_glyphs.items():
+        assert coarse_glyphs[name].get("transform") == f"scale({step / 64:g})"
+        numbers = [float(x) for x in re.findall(r"-?\d+(?:\.\d+)?", path.get("d"))]
+        coarse_numbers = [
+            float(x) * step for x in re.findall(r"-?\d+(?:\.\d+)?", coarse_glyphs[name].get("d"))
+        ]
+        assert len(numbers) == len(coarse_numbers)
+        assert np.max(np.abs(np.subtract(numbers, coarse_numbers))) <= step / 2
+        fine_commands = [c for c in re.findall(r"[A-Za-z]", path.get("d"))]
+        coarse_commands = re.findall(r"[A-Za-z]", coarse_glyphs[name].get("d"))
+        collapsed = [
+            c
+            for i, c in enumerate(fine_commands)
+            if not (i > 0 and c == fine_commands[i - 1] and c in "LQ")
+        ]
+        assert coarse_commands == collapsed

@@ -186,6 +186,16 @@ def _cross_checks_heat_sink(raw) -> list[str]:
         )
     if is_natural and _get(raw, "air", "bypass") is not None:
         out.append("air.bypass: applies to forced flow only (air.flow is natural); remove it")
+    if (
+        isinstance(flow, dict)
+        and flow.get("free_convection") is not None
+        and _get(raw, "sink", "heat_transfer_coefficient_override") is not None
+    ):
+        out.append(
+            "air.flow.free_convection: cannot be combined with "
+            "sink.heat_transfer_coefficient_override (a hand-given h already stands for all the "
+            "convection); remove one"
+        )
 
     inlet = _si(raw, "temperature", "air", "inlet_temperature")
     limit = _si(raw, "temperature", "limit", "temperature")

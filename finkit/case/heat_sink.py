@@ -359,23 +359,69 @@ class Natural(_Model):
     orientation: Literal["vertical-fins", "horizontal-base-fins-up"]
 
 
+class FreeConvection(_Model):
+    """Credit for free convection beside a weak forced flow (mixed convection), by Churchill's
+    combination with n = 3 (finkit.physics.sink.mixed).
+
+    ``orientation``: the sink's natural-convection orientation (one finkit covers);
+    ``forced_flow``: the forced flow's direction against gravity, ``upward`` (buoyancy aids it)
+    or ``horizontal`` (buoyancy crosses it); a downward flow is refused (buoyancy opposes it and
+    no credit is taken). ``radiation``: whether radiation to the surroundings is credited too.
+    """
+
+    orientation: Text
+    forced_flow: Text
+    radiation: bool = False
+
+    @model_validator(mode="after")
+    def _known(self):
+        from finkit.physics.correlations.natural import SUPPORTED_ORIENTATIONS
+        from finkit.physics.sink.inputs import FREE_CONVECTION_DIRECTIONS
+
+        problems = []
+        if self.orientation not in SUPPORTED_ORIENTATIONS:
+            problems.append(
+                (
+                    "orientation",
+                    f"got '{self.orientation}'; allowed: {', '.join(SUPPORTED_ORIENTATIONS)}",
+                )
+            )
+        if self.forced_flow not in FREE_CONVECTION_DIRECTIONS:
+            problems.append(
+                (
+                    "forced_flow",
+                    f"got '{self.forced_flow}'; allowed: {', '.join(FREE_CONVECTION_DIRECTIONS)}"
+                    " (a downward flow opposes buoyancy; leave free_convection out, no credit)",
+                )
+            )
+        if problems:
+            raise _fail_many(problems)
+        return self
+
+
 class Flow(_Model):
     """How air reaches the sink: exactly one of the four forms.
 
     ``approach_velocity`` [m s⁻¹] upstream of the sink; ``volume_flow`` [m³ s⁻¹] total flow
     approaching the sink before any bypass; ``fan`` a fan curve; ``natural`` natural convection.
+    ``free_convection`` (forced forms only): credit buoyancy and radiation at a weak flow.
     """
 
     approach_velocity: Velocity | None = None
     volume_flow: VolumeFlow | None = None
     fan: Fan | None = None
     natural: Natural | None = None
+    free_convection: FreeConvection | None = None
 
     @model_validator(mode="after")
     def _one_form(self):
         problem = _flow_problem(_given(self, _FLOW_FORMS))
         if problem:
             raise _fail(problem)
+        if self.natural is not None and self.free_convection is not None:
+            raise _fail_many(
+                [("free_convection", "applies to a forced flow only (air.flow is natural)")]
+            )
         return self
 
     @property

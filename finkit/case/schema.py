@@ -164,6 +164,7 @@ _LATER_FIELDS = (
     (("sources",), []),
     (("sink", "base", "spreader"), None),
     (("transient",), None),
+    (("air", "flow", "free_convection"), None),
 )
 #: The same for the fields of each entry under ``materials``.
 _LATER_MATERIAL_FIELDS = (("specific_heat", None),)

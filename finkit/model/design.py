@@ -27,6 +27,7 @@ from finkit.physics.sink.inputs import (
     Air,
     Bypass,
     FanDriven,
+    FreeConvectionCredit,
     GivenVelocity,
     GivenVolumeFlow,
     HeatSource,
@@ -185,7 +186,8 @@ def sink_inputs(case) -> SinkInputs:
         limit_temperature=limit_temperature,
         required_margin=required_margin,
         options=ModelOptions(
-            heat_transfer_coefficient_override=s.heat_transfer_coefficient_override
+            heat_transfer_coefficient_override=s.heat_transfer_coefficient_override,
+            free_convection=_free_convection(a.flow.free_convection),
         ),
         altitude=float(a.altitude),
         sources=layout,
@@ -250,6 +252,14 @@ def fan_curve(fan) -> FanCurve:
     if fan.pressure_factor != 1.0:
         curve = curve.scaled(pressure_factor=fan.pressure_factor)
     return curve
+
+
+def _free_convection(block) -> FreeConvectionCredit | None:
+    if block is None:
+        return None
+    return FreeConvectionCredit(
+        orientation=block.orientation, forced_flow=block.forced_flow, radiation=block.radiation
+    )
 
 
 def _flow(flow):

@@ -9,6 +9,7 @@ from __future__ import annotations
 from typing import Any
 
 from finkit.report import present
+from finkit.report.flow_situations import free_convection_credit, free_convection_method
 from finkit.report.formatting import (
     _R,
     H_SCATTER,
@@ -95,6 +96,9 @@ _REFS = {
     "CoolProp, Ind. Eng. Chem. Res. 53(6), 2498-2508, 2014 (dry air, tabulated by finkit).",
     "bypass": "Lee, S., Optimum design and selection of heat sinks, IEEE Trans. CPMT-A 18(4), "
     "812-817, 1995 (flow bypass as parallel branches at one pressure difference).",
+    "churchill_mixed": "Churchill, S.W., A comprehensive correlating equation for laminar, "
+    "assisting, forced and free convection, AIChE J. 23(1), 10-16, 1977 (with Incropera et al., "
+    "6th ed., section 9.9, Eq. 9.64).",
 }
 
 
@@ -131,6 +135,11 @@ def _reference_keys(result) -> list[str]:
         keys += ["gaddis", "kays_london", "incropera"]
     if not _is_natural(result) and result.inputs.bypass is not None:
         keys.append("bypass")
+    credit = free_convection_credit(result)
+    if credit is not None and credit.orientation == "horizontal-base-fins-up":
+        keys += ["churchill_mixed", "jones_smith", "incropera"]
+    elif credit is not None:
+        keys += ["churchill_mixed", "bar_cohen", "churchill_chu", "incropera"]
     keys += ["yovanovich_series"]
     if getattr(result.inputs, "sources", None) is not None:
         keys += ["muzychka_eccentric", "muzychka_orthotropic"]
@@ -476,6 +485,7 @@ def method_section(result) -> present.Fragment:
         else:
             flow_text += "The volume flow is given in the case file."
         parts.append(present.text(flow_text))
+        parts += free_convection_method(result, cite)
     parts += [
         present.heading("Spreading and base conduction", 3),
         present.text(
@@ -584,8 +594,15 @@ def assumptions(result) -> present.Fragment:
             "Air properties for heat transfer at the film temperature (inlet air and mean "
             "base), iterated with the solution; pressure drop and fan at the inlet air density "
             "and viscosity.",
-            "Radiation is not credited in forced convection (conservative; usually below "
+            "Radiation is credited beside the weak forced flow, as the case asks."
+            if getattr(free_convection_credit(result), "radiation", False)
+            else "Radiation is not credited in forced convection (conservative; usually below "
             "about 10 % of the heat).",
+            "Free convection is credited beside the weak forced flow (Churchill's combination, "
+            "n = 3), as the case asks."
+            if free_convection_credit(result) is not None
+            else "Free convection is not credited beside the forced flow (conservative where "
+            "buoyancy aids the flow; a warning says when it is not negligible).",
             "Pressure drop of the sink only (and its bypass): no filter, grille, bend or "
             "enclosure loss unless the model options add one.",
         ]

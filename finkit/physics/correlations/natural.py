@@ -220,7 +220,7 @@ def nusselt_horizontal_fin_array_jones_smith(rayleigh_spacing):
     coefficient are compared). The four recalled constants reproducing both the exponent
     (``1 - 0.44·1.7 = 0.252`` against 1/4) and the coefficient (0.538 against 0.54) is strong
     evidence that they are the published ones; no printed Jones & Smith data point was available
-    to test against (docs/methods.md g4).
+    to test against (docs/methods.md g5).
 
     References
     ----------

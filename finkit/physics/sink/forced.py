@@ -45,6 +45,10 @@ __all__ = [
 #: source).
 RICHARDSON_LIMIT = 0.1
 
+#: Highest film temperature an iterate of the mixed-convection loop is evaluated at [K] (inside
+#: the air-property table, which ends at 500 K).
+_HOTTEST_FILM = 495.0
+
 
 # --------------------------------------------------------------------------------------
 # Forced convection: fins and base to air
@@ -485,12 +489,25 @@ def _assemble(
 
 
 def _solve_forced(
-    geometry, material, source, air, flow, bypass, options, *, power=None, limit=None, airflow=None
+    geometry,
+    material,
+    source,
+    air,
+    flow,
+    bypass,
+    options,
+    *,
+    power=None,
+    limit=None,
+    airflow=None,
+    mixed=None,
 ):
     """Forced convection in either mode: ``power`` given, or ``limit=(node, temperature)``.
 
     ``airflow``: the :func:`solve_airflow` result of these same inputs, when the caller has it
     (the airflow does not depend on the power, so both design questions can share one).
+    ``mixed``: with ``options.free_convection`` set, ``mixed(G_forced, base_excess) ->
+    (G, G_rad)`` (:func:`finkit.physics.sink.mixed.mixed_conductance` bound to the design).
     """
     if airflow is None:
         airflow = solve_airflow(geometry, flow, air, bypass, options)
@@ -498,11 +515,20 @@ def _solve_forced(
     is_shrouded = _is_shrouded(bypass)
     t_in = np.asarray(air.inlet_temperature, float)
     base_excess = np.zeros_like(t_in)
+    credit = options.free_convection
+    radiation = 0.0
     for _ in range(FILM_ITERATIONS):
+        if credit is not None:
+            # The first pass (forced alone) can be far too hot at a weak flow; later passes
+            # fall back as the free conductance comes in. The result is checked below.
+            base_excess = np.minimum(base_excess, _HOTTEST_FILM - t_in)
         film = air_properties(t_in + 0.5 * base_excess, air.pressure)
         conv = _forced_convection(
             geometry, material, film, airflow, inlet.density, is_shrouded, options
         )
+        if credit is not None:
+            combined, radiation = mixed(1.0 / conv.sink_resistance, base_excess)
+            conv = replace(conv, sink_resistance=1.0 / combined)
         r_sp, r_base, r_sp_centre = _chain(geometry, material, source, conv.sink_resistance)
         if limit is None:
             q = np.asarray(power, float)
@@ -513,11 +539,17 @@ def _solve_forced(
         previous, base_excess = base_excess, q * conv.sink_resistance
         if np.all(np.abs(base_excess - previous) <= FILM_TOLERANCE):
             break
+    if credit is not None and np.any(t_in + 0.5 * base_excess > _HOTTEST_FILM):
+        air_properties(t_in + 0.5 * base_excess, air.pressure)  # raises the range error
     mass_flow = inlet.density * airflow.sink_volume_flow
-    buoyancy = buoyancy_warnings(
-        base_excess, t_in + 0.5 * base_excess, geometry.base_length, conv.channel_velocity
-    )
-    return _assemble(
+    q_rad = np.asarray(q * conv.sink_resistance * radiation, float)
+    if credit is None:
+        buoyancy = buoyancy_warnings(
+            base_excess, t_in + 0.5 * base_excess, geometry.base_length, conv.channel_velocity
+        )
+    else:
+        buoyancy = ()
+    sol = _assemble(
         power=q,
         air=air,
         source=source,
@@ -528,8 +560,8 @@ def _solve_forced(
         mass_flow=mass_flow,
         specific_heat=film.specific_heat,
         conv_tip_ratio=conv.tip_ratio,
-        convection_heat_rate=q,
-        radiation_heat_rate=np.zeros_like(np.asarray(q, float)),
+        convection_heat_rate=q - q_rad,
+        radiation_heat_rate=q_rad + 0.0 * np.asarray(q, float),
         h=conv.heat_transfer_coefficient,
         eta_f=conv.fin_efficiency,
         eta_o=conv.surface_efficiency,
@@ -537,4 +569,12 @@ def _solve_forced(
         channel_velocity=conv.channel_velocity,
         reynolds=conv.reynolds_number,
         warnings=conv.warnings + airflow.warnings + buoyancy,
+    )
+    if credit is None:
+        return sol
+    # Part of the heat leaves by free convection and radiation, not into the forced stream:
+    # the mixed-mean outlet from all of it over m_dot c_p is an upper bound, and the air can
+    # leave no hotter than the base (conservative).
+    return replace(
+        sol, outlet_air_temperature=np.minimum(sol.outlet_air_temperature, sol.base_temperature)
     )

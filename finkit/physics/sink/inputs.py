@@ -17,8 +17,10 @@ __all__ = [
     "DEFAULT_OPTIONS",
     "FILM_ITERATIONS",
     "FILM_TOLERANCE",
+    "FREE_CONVECTION_DIRECTIONS",
     "FanDriven",
     "Flow",
+    "FreeConvectionCredit",
     "GivenVelocity",
     "GivenVolumeFlow",
     "HeatSource",
@@ -117,6 +119,47 @@ class NaturalConvection:
 
 Flow = GivenVelocity | GivenVolumeFlow | FanDriven | NaturalConvection
 
+#: Directions of a weak forced flow against gravity for which free convection may be credited:
+#: ``"upward"`` (buoyancy aids the forced flow) and ``"horizontal"`` (buoyancy crosses it). Both
+#: take the plus sign of Churchill's combination; a downward (opposing) flow is refused.
+FREE_CONVECTION_DIRECTIONS = ("upward", "horizontal")
+
+
+@dataclass(frozen=True)
+class FreeConvectionCredit:
+    """Credit taken for free convection, and optionally radiation, beside a weak forced flow.
+
+    The sink's forced-convection conductance (inlet-referenced, air heating included) and its
+    natural-convection conductance in the stated orientation are combined by Churchill's power
+    rule ``G^n = G_forced^n + G_free^n`` with ``n = 3`` (Churchill, S.W., "A comprehensive
+    correlating equation for laminar, assisting, forced and free convection", AIChE J. 23(1),
+    10-16, 1977; Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., section
+    9.9, Eq. 9.64, which gives n = 3 for assisting and transverse flows); radiation, when
+    credited, is added in parallel. See :mod:`finkit.physics.sink.mixed`.
+
+    Attributes
+    ----------
+    orientation : str
+        Natural-convection orientation of the sink (a key ``natural_orientation_check`` accepts).
+    forced_flow : str
+        Direction of the forced flow against gravity, one of
+        :data:`FREE_CONVECTION_DIRECTIONS`.
+    radiation : bool
+        Whether radiation to the surroundings is credited too.
+    """
+
+    orientation: str = "vertical-fins"
+    forced_flow: str = "upward"
+    radiation: bool = False
+
+    def __post_init__(self):
+        if self.forced_flow not in FREE_CONVECTION_DIRECTIONS:
+            raise InputError(
+                f"free_convection.forced_flow: got {self.forced_flow!r}; allowed: "
+                f"{', '.join(FREE_CONVECTION_DIRECTIONS)} (a downward flow opposes buoyancy, "
+                "which lowers h; no credit is taken for it)"
+            )
+
 
 @dataclass(frozen=True)
 class Bypass:
@@ -179,6 +222,9 @@ class ModelOptions:
         ``"lower"``: the laminar-developing (Teertstra) and the VDI model (laminar, transition,
         turbulent) each give a sink resistance and the higher is used (conservative where the
         flow is near transition and the two bracket h).
+    free_convection : FreeConvectionCredit or None
+        Credit for free convection (and radiation) beside a weak forced flow (mixed
+        convection); None (default) = forced convection alone, no credit.
     pin_bank_method : str
         Pin-array heat transfer, one of ``forced.PIN_BANK_METHODS``; default ``"lower"`` (the
         lower h of Zukauskas and Gnielinski).
@@ -228,6 +274,7 @@ class ModelOptions:
     sink_resistance_factor: float | np.ndarray = 1.0
     heat_transfer_coefficient_override: float | np.ndarray | None = None
     pin_bank_method: str = "lower"
+    free_convection: FreeConvectionCredit | None = None
 
     def __post_init__(self):
         for name, allowed in (

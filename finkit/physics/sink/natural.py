@@ -24,6 +24,8 @@ from finkit.physics.sink.inputs import (
     ModelOptions,
     _passage_thickness,
 )
+
+__all__ = ["natural_heat_rate"]
 from finkit.physics.sink.results import (
     _above_base,
 )
@@ -174,6 +176,43 @@ def _natural_heat_rate(
     )
 
 
+def natural_heat_rate(geometry, material, air: Air, base_excess, options: ModelOptions, flow):
+    """Heat leaving the sink by natural convection and radiation at a base excess [W].
+
+    The state of the natural-convection model of ``flow.orientation`` (convective and
+    radiative heat, h, efficiencies); used on its own by the natural-convection solve and
+    beside a weak forced flow by :mod:`finkit.physics.sink.mixed`.
+
+    Parameters
+    ----------
+    geometry : PlateFinSink
+        The sink [-].
+    material : SinkMaterial
+        Conductivity [W m⁻¹ K⁻¹] and emissivity [-].
+    air : Air
+        Inlet air and surroundings [K], pressure [Pa].
+    base_excess : array_like
+        Mean base temperature less the inlet air temperature [K].
+    options : ModelOptions
+        Model options [-].
+    flow : NaturalConvection
+        The orientation [-].
+    """
+    orientation = _checked_orientation(geometry, flow)
+    return _natural_heat_rate(geometry, material, air, base_excess, options, orientation)
+
+
+def _checked_orientation(geometry, flow) -> str:
+    """The orientation of ``flow`` when finkit covers it for ``geometry``; else one-line errors."""
+    orientation = natural.natural_orientation_check(flow.orientation)
+    if not isinstance(geometry, PlateFinSink):
+        raise InputError(
+            "sink.type: natural convection is covered for plate fins only (no published "
+            "pin-fin array correlation for still air could be confirmed for finkit)"
+        )
+    return orientation
+
+
 def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperature, upper=400.0):
     """Vectorised bracketed root of ``residual(base_excess)`` [K].
 
@@ -197,12 +236,7 @@ def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperatu
 def _solve_natural(geometry, material, source, air, flow, options, *, power=None, limit=None):
     # Long by design: the broadcast shape of every input, the base-excess root (power given or limit
     # given) and the solution's nodes, which share the residual's closures.
-    orientation = natural.natural_orientation_check(flow.orientation)
-    if not isinstance(geometry, PlateFinSink):
-        raise InputError(
-            "sink.type: natural convection is covered for plate fins only (no published "
-            "pin-fin array correlation for still air could be confirmed for finkit)"
-        )
+    orientation = _checked_orientation(geometry, flow)
     t_in = np.asarray(air.inlet_temperature, float)
     t_sur = t_in if air.surroundings_temperature is None else air.surroundings_temperature
 

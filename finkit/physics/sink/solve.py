@@ -21,6 +21,7 @@ from finkit.physics.sink.inputs import (
     NaturalConvection,
     SinkMaterial,
 )
+from finkit.physics.sink.mixed import mixed_conductance
 from finkit.physics.sink.natural import (
     _solve_natural,
 )
@@ -39,6 +40,17 @@ __all__ = [
 # --------------------------------------------------------------------------------------
 # The two design questions
 # --------------------------------------------------------------------------------------
+
+
+def _mixed(geometry, material, air, options):
+    """The mixed-convection conductance of this design, when the options credit it."""
+    if options.free_convection is None:
+        return None
+
+    def mixed(forced, base_excess):
+        return mixed_conductance(geometry, material, air, options, forced, base_excess)
+
+    return mixed
 
 
 def solve_temperatures(
@@ -95,6 +107,7 @@ def solve_temperatures(
             options,
             power=source.power,
             airflow=airflow,
+            mixed=_mixed(geometry, material, air, options),
         )
 
 
@@ -156,5 +169,14 @@ def solve_allowable_power(
             return _solve_natural(geometry, material, source, air, flow, options, limit=limit)[0]
     with _property_range_context():
         return _solve_forced(
-            geometry, material, source, air, flow, bypass, options, limit=limit, airflow=airflow
+            geometry,
+            material,
+            source,
+            air,
+            flow,
+            bypass,
+            options,
+            limit=limit,
+            airflow=airflow,
+            mixed=_mixed(geometry, material, air, options),
         )
