@@ -570,6 +570,11 @@ def main(argv: list[str] | None = None) -> int:
         args = parser.parse_args(argv)
     except SystemExit as exc:  # --help, --version, or a usage error (argparse exits 2)
         return int(exc.code or 0)
+    if args.func is not _batch:
+        # pint imports dask (0.08-0.1 s) whenever it is installed, only to support dask arrays
+        # of quantities; no finkit command but a batch on a dask scheduler uses dask. As for
+        # rfc3987_syntax above, the package is then treated as absent in this process.
+        sys.modules.setdefault("dask", None)
     debug = bool(getattr(args, "debug", False))
     try:
         with warnings.catch_warnings():

@@ -1,6 +1,6 @@
 """Tolerances of case inputs: which inputs may carry one and the distribution of each.
 
-A light module (numpy only; scipy.special is imported when a tolerance is sampled) so that the
+A light module (numpy only; the normal distribution from finkit.probability) so that the
 case schema can validate a ``tolerances`` block without loading the solver. The Monte Carlo and
 sensitivity studies that use these tolerances are in :mod:`finkit.model.uncertainty`, which
 re-exports every name here.
@@ -14,6 +14,7 @@ from typing import NamedTuple
 import numpy as np
 
 from finkit.errors import InputError
+from finkit.probability import normal_cdf, normal_quantile
 
 #: Distributions a :class:`Tolerance` may have.
 DISTRIBUTIONS = ("normal", "uniform", "triangular")
@@ -279,7 +280,7 @@ class Tolerance:
             if self.truncation is None:
                 return b * b
             t = self.truncation
-            z = _special().ndtr(t) - _special().ndtr(-t)
+            z = normal_cdf(t) - normal_cdf(-t)
             return b * b * (1.0 - 2.0 * t * np.exp(-0.5 * t * t) / np.sqrt(2 * np.pi) / z)
         if self.distribution == "uniform":
             return (b - a) ** 2 / 12.0
@@ -318,10 +319,10 @@ class Tolerance:
         if self.distribution == "normal":
             if self.truncation is None:
                 tiny = np.finfo(float).tiny
-                return a + b * _special().ndtri(np.clip(u, tiny, 1.0 - np.finfo(float).epsneg))
-            lo = _special().ndtr(-self.truncation)
-            hi = _special().ndtr(self.truncation)
-            return a + b * _special().ndtri(lo + u * (hi - lo))
+                return a + b * normal_quantile(np.clip(u, tiny, 1.0 - np.finfo(float).epsneg))
+            lo = normal_cdf(-self.truncation)
+            hi = normal_cdf(self.truncation)
+            return a + b * normal_quantile(lo + u * (hi - lo))
         if self.distribution == "uniform":
             return a + u * (b - a)
         lo, mode, hi = a, b, c
@@ -330,9 +331,3 @@ class Tolerance:
         left = lo + np.sqrt(u * span * (mode - lo))
         right = hi - np.sqrt((1.0 - u) * span * (hi - mode))
         return np.where(u < f_mode, left, right)
-
-
-def _special():
-    from scipy import special
-
-    return special

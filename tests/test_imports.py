@@ -86,6 +86,19 @@ def test_a_fan_cooled_check_with_measurements_loads_no_optimiser_or_interpolatio
     assert sorted(m for m in heavy if m in loaded) == []
 
 
+def test_the_check_command_loads_neither_scipy_special_nor_dask():
+    # A check with tolerances and Monte Carlo samples the normal distribution and bounds the
+    # exceedance with finkit.probability, not scipy.special (0.15-0.3 s with NumPy's f2py);
+    # pint's optional dask support is kept out of every command but batch (0.08 s). Revision
+    # A: the same case without the transient block (whose ODE solver loads scipy.special).
+    rev_a = str(FAN.with_name("nb200-plate-fan-rev-a.yaml"))
+    loaded = _imported(
+        f"import sys; from finkit.cli import main; sys.exit(main(['check', {rev_a!r}]) * 0)"
+    )
+    assert "finkit.model.uncertainty" in loaded  # the Monte Carlo ran
+    assert sorted(m for m in ("scipy.special", "dask", "numpy.f2py") if m in loaded) == []
+
+
 def _python(code: str, env: dict | None = None) -> str:
     import os
 

@@ -57,6 +57,7 @@ from finkit.errors import InputError
 from finkit.model.design import SinkInputs, limit_node_temperature, solve
 from finkit.physics.sink.inputs import FanDriven, GivenVelocity, GivenVolumeFlow, NaturalConvection
 from finkit.physics.sink.results import SinkSolution
+from finkit.probability import binomial_upper_bound
 from finkit.tolerance import (
     DISTRIBUTIONS,
     ONE_SOURCE_TOLERANCES,
@@ -390,11 +391,7 @@ class MonteCarloResult:
         k = int(np.sum(self.limit_node_temperature > temperature))
         if k >= n:
             return 1.0
-        # Beta.ppf(q, a, b) is the inverse regularised incomplete beta function
-        # betaincinv(a, b, q) (scipy.special: no 0.3 s import of scipy.stats for one number).
-        from scipy import special
-
-        return float(special.betaincinv(k + 1, n - k, confidence))
+        return binomial_upper_bound(k, n, confidence)
 
     def summary(self) -> dict[str, float]:
         """Headline numbers for a note: name -> value (temperatures in K, probabilities [-])."""

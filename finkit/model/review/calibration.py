@@ -8,7 +8,7 @@ import numpy as np
 
 from finkit.case.review_blocks import MEASUREMENT_NODES
 from finkit.errors import InputError
-from finkit.model.design import SinkInputs, solve
+from finkit.model.design import SinkInputs, airflow_of, solve
 from finkit.model.review.scenarios import (
     EMPIRICAL_STATEMENT,
     _shifted_air,
@@ -239,10 +239,16 @@ def _measurement_groups(inputs: SinkInputs, measurements):
     return out
 
 
-def _predict(groups, target, multiplier, count) -> np.ndarray:
+def _predict(groups, target, multiplier, count, airflows=None) -> np.ndarray:
+    """Predicted temperatures at the measured points with ``multiplier`` applied [K].
+
+    ``airflows``: each group's airflow, solved once; the multiplier (on h or on the sink
+    resistance) does not change the flow, so the fit's many evaluations share it.
+    """
     out = np.empty(count)
-    for idx, group_inputs, nodes in groups:
-        sol = solve(_with_multiplier(group_inputs, target, multiplier))
+    airflows = airflows or [None] * len(groups)
+    for (idx, group_inputs, nodes), airflow in zip(groups, airflows, strict=True):
+        sol = solve(_with_multiplier(group_inputs, target, multiplier), airflow=airflow)
         out[idx] = _node_values(sol, nodes)
     return out
 
@@ -355,9 +361,10 @@ def calibrate(
     measured = np.array([m.measured_temperature for m in measurements])
     inlet = np.array([m.inlet_temperature for m in measurements])
     groups = _measurement_groups(inputs, measurements)
+    airflows = [airflow_of(group_inputs) for _, group_inputs, _ in groups]
 
     def residual(x):
-        return _predict(groups, target, x[0], n) - measured
+        return _predict(groups, target, x[0], n, airflows) - measured
 
     c, r, jac = _one_parameter_fit(residual, 1.0, (0.05, 20.0))
     dof = n - 1
@@ -381,7 +388,7 @@ def calibrate(
         nodes=tuple(m.node for m in measurements),
         measured=measured,
         inlet_temperatures=inlet,
-        predicted_uncalibrated=_predict(groups, target, 1.0, n),
+        predicted_uncalibrated=_predict(groups, target, 1.0, n, airflows),
         predicted=predicted,
         residuals=r,
         relative_residuals=r / (measured - inlet),
