@@ -226,6 +226,28 @@ def _natural_method_line(case) -> str | None:
     return f"natural convection ({natural.orientation}): {ORIENTATION_METHODS[natural.orientation]}"
 
 
+def _flow_lines(result) -> list[str]:
+    """How the air reaches a forced-flow sink with bypass, and what share goes round it."""
+    from finkit.physics.sink.inputs import Bypass, FreeStream
+
+    inputs, sol = getattr(result, "inputs", None), getattr(result, "solution", None)
+    bypass = getattr(inputs, "bypass", None)
+    if sol is None or not isinstance(bypass, Bypass | FreeStream):
+        return []
+    share = float(sol.bypass_volume_flow / sol.volume_flow) if float(sol.volume_flow) else 0.0
+    channel, approach = float(sol.channel_velocity), float(sol.approach_velocity)
+    if isinstance(bypass, FreeStream):
+        return [
+            "air (nominal condition): free stream, no duct (Lee 1995 bypass balance, unbounded "
+            f"bypass region): {share:.0%} of the approach flow goes round the sink; channel "
+            f"velocity {channel:.3g} m/s in a {approach:.3g} m/s stream"
+        ]
+    return [
+        f"air (nominal condition): duct with clearance: {share:.0%} of the flow goes round the "
+        f"fins; channel velocity {channel:.3g} m/s"
+    ]
+
+
 def _check(args) -> int:
     from finkit.case.schema import load_case
 
@@ -244,6 +266,8 @@ def _check(args) -> int:
     method = _natural_method_line(case)
     if method:
         print(method)
+    for line in _flow_lines(result):
+        print(line)
     if getattr(result, "transient", None) is not None:
         print(result.transient.check_line())
     if payload.get("governing"):

@@ -45,7 +45,8 @@ def errors_of(data) -> list[str]:
 
 def test_there_are_demo_cases_and_starters():
     assert {p.stem for p in DEMOS} >= {"nb200-plate-fan", "nb300-pin-ducted", "nb100-natural",
-                                       "nb-fin-study", "nb400-board-sources"}  # fmt: skip
+                                       "nb-fin-study", "nb400-board-sources",
+                                       "nb210-board-stream"}  # fmt: skip
     assert {p.stem for p in STARTERS} == {
         "plate-fin",
         "pin-fin",

@@ -436,16 +436,34 @@ SMALLEST_GAP = 5e-5
 
 
 class Bypass(_Model):
-    """Clearance [m] between the sink and the duct: on each side, and above the fin tips.
+    """Where the air can go round the sink: a duct with clearance, or no duct at all.
 
-    A gap is 0 (the duct touches the sink) or at least :data:`SMALLEST_GAP`.
+    ``side_gap``, ``top_gap`` [m]: clearance between the sink and its duct on each side and
+    above the fin tips; a gap is 0 (the duct touches the sink) or at least
+    :data:`SMALLEST_GAP`. ``free_stream: true``: no duct, the sink stands unshrouded in the
+    approach stream (a board-mounted sink in a system fan's stream); the share of the stream
+    through the fins comes from Lee's bypass balance (docs/methods.md h), the fin tips see the
+    air, and a given volume flow means the stream's flow through the sink's frontal area.
+    Without an ``air.bypass`` block the sink is taken as fully ducted.
     """
 
     side_gap: Gap = 0.0
     top_gap: Gap = 0.0
+    free_stream: bool = False
 
     @model_validator(mode="after")
     def _real_gaps(self):
+        given = sorted({"side_gap", "top_gap"} & self.model_fields_set)
+        if self.free_stream and given:
+            raise _fail_many(
+                [
+                    (
+                        "free_stream",
+                        f"true means no duct round the sink, so {' and '.join(given)} do not "
+                        "apply; remove them, or set free_stream: false for a duct with clearance",
+                    )
+                ]
+            )
         problems = [
             (
                 name,
@@ -472,6 +490,30 @@ class Air(_Model):
 
     @model_validator(mode="after")
     def _default_surroundings(self):
+        if (
+            self.bypass is not None
+            and self.bypass.free_stream
+            and self.flow.mode
+            in (
+                "fan",
+                "natural",
+            )
+        ):
+            allowed = "approach_velocity or volume_flow"
+            reason = (
+                "a fan against an unshrouded sink has no defined system curve (the air goes "
+                "round the sink)"
+                if self.flow.mode == "fan"
+                else "natural convection has no approach stream"
+            )
+            raise _fail_many(
+                [
+                    (
+                        "bypass.free_stream",
+                        f"true needs air.flow {allowed} (got {self.flow.mode}): {reason}",
+                    )
+                ]
+            )
         if self.surroundings_temperature is None:
             object.__setattr__(self, "surroundings_temperature", self.inlet_temperature)
         return self

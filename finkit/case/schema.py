@@ -165,6 +165,7 @@ _LATER_FIELDS = (
     (("sink", "base", "spreader"), None),
     (("transient",), None),
     (("air", "flow", "free_convection"), None),
+    (("air", "bypass", "free_stream"), False),
 )
 #: The same for the fields of each entry under ``materials``.
 _LATER_MATERIAL_FIELDS = (("specific_heat", None),)

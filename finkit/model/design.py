@@ -28,6 +28,7 @@ from finkit.physics.sink.inputs import (
     Bypass,
     FanDriven,
     FreeConvectionCredit,
+    FreeStream,
     GivenVelocity,
     GivenVolumeFlow,
     HeatSource,
@@ -85,7 +86,7 @@ class SinkInputs:
     source: HeatSource
     air: Air
     flow: Any
-    bypass: Bypass | None
+    bypass: Bypass | FreeStream | None
     limit_node: str
     limit_temperature: float
     required_margin: float
@@ -164,7 +165,9 @@ def sink_inputs(case) -> SinkInputs:
     )
     flow = _flow(a.flow)
     bypass = None
-    if a.bypass is not None and (a.bypass.side_gap > 0 or a.bypass.top_gap > 0):
+    if a.bypass is not None and a.bypass.free_stream:
+        bypass = FreeStream()
+    elif a.bypass is not None and (a.bypass.side_gap > 0 or a.bypass.top_gap > 0):
         bypass = Bypass(side_gap=a.bypass.side_gap, top_gap=a.bypass.top_gap)
     limit_node, limit_temperature, required_margin = (
         limits[0]

@@ -24,6 +24,7 @@ from finkit.physics.properties.atmosphere import standard_atmosphere
 from finkit.physics.properties.materials import get_material
 from finkit.physics.sink.inputs import (
     FanDriven,
+    FreeStream,
     GivenVolumeFlow,
     NaturalConvection,
 )
@@ -298,7 +299,8 @@ def sweep_notes(case, inputs: SinkInputs, solution: SinkSolution) -> list[str]:
 
 
 def is_fin_tip_exposed(inputs: SinkInputs) -> bool:
-    """True where the fin tips see the air: natural convection, or a bypass gap above the tips.
+    """True where the fin tips see the air: natural convection, a free stream (no duct), or a
+    bypass gap above the tips.
 
     Same rule as :mod:`finkit.physics.sink`: a shroud on the tips (no top gap) makes the tip
     adiabatic on the real length; an exposed tip uses the corrected length ``L + A_c/P``.
@@ -308,7 +310,7 @@ def is_fin_tip_exposed(inputs: SinkInputs) -> bool:
     inputs : SinkInputs
         The design at one condition. [-]
     """
-    if isinstance(inputs.flow, NaturalConvection):
+    if isinstance(inputs.flow, NaturalConvection) or isinstance(inputs.bypass, FreeStream):
         return True
     return inputs.bypass is not None and bool(np.any(np.asarray(inputs.bypass.top_gap) > 0))
 

@@ -43,6 +43,7 @@ resistance).
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -343,20 +344,20 @@ def shared_rises(
         total power [K W⁻¹], the design axes first; the sample points' coordinates ``[i, k]``
         [m].
     """
-    geometry = _Geometry.of(plate, footprints, modes, peak_points)
+    geometry = _Geometry.of(plate, tuple(footprints), modes, peak_points)
     share = np.asarray(shares, float)
     h = _positive_h(heat_transfer_coefficient)
     flat = h.ravel()
     unique, inverse = np.unique(flat, return_inverse=True)
     if unique.size <= nodes:
-        values = [geometry.influence(v) for v in unique]
-        mean = np.stack([m @ share for m, _ in values])[inverse]
-        points = np.stack([p @ share for _, p in values])[inverse]
+        values = [geometry.shared_influence(v, share) for v in unique]
+        mean = np.stack([m for m, _ in values])[inverse]
+        points = np.stack([p for _, p in values])[inverse]
     else:
         grid = np.linspace(np.log(unique[0]), np.log(unique[-1]), nodes)
-        values = [geometry.influence(v) for v in np.exp(grid)]
-        mean = uniform_spline(grid, np.stack([m @ share for m, _ in values]))(np.log(flat))
-        points = uniform_spline(grid, np.stack([p @ share for _, p in values]))(np.log(flat))
+        values = [geometry.shared_influence(v, share) for v in np.exp(grid)]
+        mean = uniform_spline(grid, np.stack([m for m, _ in values]))(np.log(flat))
+        points = uniform_spline(grid, np.stack([p for _, p in values]))(np.log(flat))
     n_src = len(geometry.lx)
     return (
         mean.reshape(h.shape + (n_src,)),
@@ -396,15 +397,24 @@ class _Geometry:
     delta: np.ndarray
     f: np.ndarray
     g: np.ndarray
-    cx: np.ndarray
-    cy: np.ndarray
     point_along: np.ndarray
     point_across: np.ndarray
     centre_index: int
     modes: tuple[int, int]
+    cos_along: np.ndarray  # (S, K1, M): cos(lam_m x) at the grid's positions along the flow
+    cos_across: np.ndarray  # (S, K1, N): cos(delta_n y) at its positions across
 
     @classmethod
     def of(cls, plate, footprints, modes, peak_points) -> _Geometry:
+        """The geometry of these sources on this plate; remembered for the last few layouts
+        (a layout's allowable power and its sweeps ask for the same one many times)."""
+        try:
+            return _geometry_of(plate, tuple(footprints), modes, int(peak_points))
+        except TypeError:  # an unhashable footprint: build it without remembering
+            return cls._build(plate, footprints, modes, peak_points)
+
+    @classmethod
+    def _build(cls, plate, footprints, modes, peak_points) -> _Geometry:
         footprints = list(footprints)
         if not footprints:
             raise InputError("sources: none given; at least one source is needed")
@@ -431,13 +441,28 @@ class _Geometry:
             delta=delta,
             f=_profiles(lam, xc, lx),  # (S, M)
             g=_profiles(delta, yc, ly),  # (S, N)
-            cx=np.cos(px[..., None] * lam).reshape(-1, lam.size),  # (S*K, M)
-            cy=np.cos(py[..., None] * delta).reshape(-1, 1, delta.size),  # (S*K, 1, N)
             point_along=px,
             point_across=py,
             centre_index=(count * count) // 2,
             modes=(m_count, n_count),
+            cos_along=np.cos((xc[:, None] + lx[:, None] * frac)[..., None] * lam),
+            cos_across=np.cos((yc[:, None] + ly[:, None] * frac)[..., None] * delta),
         )
+
+    def shared_influence(self, h: float, share) -> tuple[np.ndarray, np.ndarray]:
+        """``(mean[i], points[i, k])`` per watt of total power shared as ``share`` at ``h``.
+
+        The same as contracting :meth:`influence` with ``share``, summed in the other order:
+        the sources' amplitudes are combined first, so the sample points see one amplitude
+        instead of one per source (about S times less work for S sources).
+        """
+        weights = _mode_weights(self.plate, float(h), self.lam, self.delta)
+        amplitude = weights * ((np.asarray(share, float)[:, None] * self.f).T @ self.g)  # (M, N)
+        mean = ((self.f @ amplitude) * self.g).sum(axis=1)
+        # The sample points of a source form a tensor grid (along x across), so the double
+        # cosine sum factors: cos(lam x_a) A cos(delta y_b) for all a, b at once.
+        points = (self.cos_along @ amplitude) @ self.cos_across.transpose(0, 2, 1)
+        return mean, points.reshape(self.f.shape[0], -1)
 
     def influence(self, h: float) -> tuple[np.ndarray, np.ndarray]:
         """``(mean[i, j], points[i, k, j])`` per watt of source ``j`` at coefficient ``h``."""
@@ -449,9 +474,19 @@ class _Geometry:
         amplitude = amplitude.reshape(n_m, n_src * n_n)
         # mean[i, j] = sum_mn f_i,m A_j,mn g_i,n
         mean = ((f @ amplitude).reshape(n_src, n_src, n_n) * g[:, None, :]).sum(axis=2)
-        # points[i, k, j] = sum_mn cos(lam_m x_ik) A_j,mn cos(delta_n y_ik)
-        points = ((self.cx @ amplitude).reshape(-1, n_src, n_n) * self.cy).sum(axis=2)
-        return mean, points.reshape(n_src, -1, n_src)
+        # points[i, (a, b), j] = cos(lam x_ia) A_j cos(delta y_ib): the sample points of a source
+        # form a tensor grid, so the double sum factors (as in shared_influence).
+        per_source = amplitude.reshape(n_m, n_src, n_n).transpose(1, 0, 2)  # (S_j, M, N)
+        grid = (self.cos_along[:, None] @ per_source[None]) @ self.cos_across[:, None].transpose(
+            0, 1, 3, 2
+        )  # (S_i, S_j, K1, K1)
+        points = grid.reshape(n_src, n_src, -1).transpose(0, 2, 1)
+        return mean, points
+
+
+@functools.lru_cache(maxsize=8)
+def _geometry_of(plate, footprints, modes, peak_points) -> _Geometry:
+    return _Geometry._build(plate, footprints, modes, peak_points)
 
 
 def base_rise_map(

@@ -196,6 +196,13 @@ def _is_fan(result) -> bool:
     return isinstance(result.inputs.flow, FanDriven)
 
 
+def _is_free_stream(result) -> bool:
+    """True where the sink stands unshrouded in an approach stream (``air.bypass.free_stream``)."""
+    from finkit.physics.sink.inputs import FreeStream
+
+    return isinstance(getattr(result.inputs, "bypass", None), FreeStream)
+
+
 def _is_plate(result) -> bool:
     from finkit.physics.geometry import PlateFinSink
 

@@ -18,6 +18,7 @@ from finkit.report.formatting import (
     _c,
     _f,
     _is_fan,
+    _is_free_stream,
     _is_heat_sink,
     _is_natural,
     _is_plate,
@@ -99,6 +100,8 @@ _REFS = {
     "churchill_mixed": "Churchill, S.W., A comprehensive correlating equation for laminar, "
     "assisting, forced and free convection, AIChE J. 23(1), 10-16, 1977 (with Incropera et al., "
     "6th ed., section 9.9, Eq. 9.64).",
+    "simons_schmidt": "Simons, R.E., Schmidt, R.R., A simple method to estimate heat sink air "
+    "flow bypass, Electronics Cooling 3(2), 36-37, 1997.",
 }
 
 
@@ -135,6 +138,8 @@ def _reference_keys(result) -> list[str]:
         keys += ["gaddis", "kays_london", "incropera"]
     if not _is_natural(result) and result.inputs.bypass is not None:
         keys.append("bypass")
+        if _is_free_stream(result):
+            keys.append("simons_schmidt")
     credit = free_convection_credit(result)
     if credit is not None and credit.orientation == "horizontal-base-fins-up":
         keys += ["churchill_mixed", "jones_smith", "incropera"]
@@ -182,6 +187,38 @@ def _several_sources_method(result, cite) -> list[Any]:
             "required margin. The allowable power scales every source by the same factor until "
             "the governing one reaches its limit less its margin; the power of one source with "
             "the others held is a linear estimate about the stated state."
+        ),
+    ]
+
+
+def _free_stream_method(cite) -> list[Any]:
+    """The note's paragraph on a sink standing unshrouded in an approach stream."""
+    return [
+        present.text(
+            "No duct: the sink stands unshrouded in the approach stream, and the share of the "
+            f"stream that passes through the fins follows Lee's bypass balance {cite('bypass')} "
+            f"as Simons & Schmidt applied it {cite('simons_schmidt')}. The stream through the "
+            "fins and the stream round the sink leave the same approach section and meet "
+            "again at the sink exit at one static pressure; the bypass stream loses nothing, "
+            "the fin stream loses the pressure drop above and its channel velocity head. With "
+            "the bypass region unbounded (the free stream) the approach dynamic head drives "
+            "the fins:"
+        ),
+        present.equation(
+            r"\dfrac{\rho\,V_{app}^2}{2} = \dfrac{\rho\,V_{ch}^2}{2} + \Delta p(Q_{hs}),"
+            r"\quad V_{ch} = \dfrac{Q_{hs}}{A_{ch}},"
+            r"\quad \text{bypass share} = 1 - \dfrac{Q_{hs}}{V_{app}\,W\,H}"
+        ),
+        present.text(
+            "V_app is the undisturbed stream's velocity at the sink, over the fin height; a "
+            "given volume flow is read as V_app W H. Any confinement round the sink would speed "
+            "up the bypass stream and push more air through the fins, and the low pressure in "
+            "the sink's wake is not credited: both make this the conservative end of the model. "
+            "The fin tips see the air (corrected fin length, open-top channels). The balance is "
+            "one-dimensional (no leakage out of the open fin tops along the flow); Lee's model "
+            "was compared with measurements for sinks in ducts with clearance, and its "
+            "free-stream limit carries about ±10-20 % on the fin flow. finkit applies it for "
+            "approach velocities of 1-20 m/s and warns outside."
         ),
     ]
 
@@ -470,7 +507,10 @@ def method_section(result) -> present.Fragment:
                 )
             )
         flow_text = "Pressure drop and fan use the inlet air density and viscosity. "
-        if result.inputs.bypass is not None:
+        if _is_free_stream(result):
+            parts += _free_stream_method(cite)
+            flow_text = "Pressure drop uses the inlet air density and viscosity. "
+        elif result.inputs.bypass is not None:
             flow_text += (
                 "With clearance between the sink and the duct, the flow splits between the fins "
                 "and the gaps so that both branches see the same pressure difference "
@@ -606,7 +646,16 @@ def assumptions(result) -> present.Fragment:
             "Pressure drop of the sink only (and its bypass): no filter, grille, bend or "
             "enclosure loss unless the model options add one.",
         ]
-        if result.inputs.bypass is not None:
+        if _is_free_stream(result):
+            items.append(
+                "Free stream: the approach velocity is that of the undisturbed stream at the "
+                "sink (over the fin height, outside the board's boundary layer and any upstream "
+                "wake); the bypass region is unbounded and the wake suction behind the sink is "
+                "not credited (both conservative); no air is taken to leak out of the open fin "
+                "tops along the flow (optimistic for long sinks); expect about ±10-20 % on the "
+                "flow through the fins."
+            )
+        elif result.inputs.bypass is not None:
             items.append(
                 "Bypass: the fins and the gaps see the same pressure difference; mixing and "
                 "momentum exchange at the sink exit are neglected (expect about ±10-20 % on "
@@ -747,7 +796,11 @@ def cautions(result) -> present.Fragment:
         items.append(
             "Flow bypass: air takes the easiest path. "
             + (
-                "The modelled gaps round the sink divert part of the flow (air side, section 1); "
+                "Standing in the open stream, the sink takes only part of the air aimed at it "
+                "(air side, section 1); "
+                if _is_free_stream(result)
+                else "The modelled gaps round the sink divert part of the flow (air side, section "
+                "1); "
                 if bypass is not None
                 else "No bypass gap is stated, so all the air is taken to pass through the fins; "
             )

@@ -25,6 +25,7 @@ from finkit.report.formatting import (
     _f,
     _figure,
     _governing_source,
+    _is_free_stream,
     _is_natural,
     _is_plate,
     _join,
@@ -334,9 +335,12 @@ def airflow_table(result) -> present.Fragment:
         ]
     else:
         q = _f(sol.volume_flow)
+        free = _is_free_stream(result)
         rows += [
             (
-                "Total volume flow at the sink",
+                "Approach flow over the sink's frontal area (free stream)"
+                if free
+                else "Total volume flow at the sink",
                 f"{_q(q, 'volume_flow', 'm^3/s')} ({_q(q, 'volume_flow', 'CFM')})",
             ),
             (
@@ -345,7 +349,10 @@ def airflow_table(result) -> present.Fragment:
                 f"({_q(_f(sol.sink_volume_flow), 'volume_flow', 'CFM')})",
             ),
             ("Bypass share of the flow", _pct(r["bypass_fraction"] * 100)),
-            ("Approach velocity (duct section)", _q(_f(sol.approach_velocity), "velocity", "m/s")),
+            (
+                "Approach velocity (free stream)" if free else "Approach velocity (duct section)",
+                _q(_f(sol.approach_velocity), "velocity", "m/s"),
+            ),
             (
                 "Channel velocity between fins"
                 if _is_plate(result)

@@ -83,6 +83,8 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
         * ``sink.heat_transfer_coefficient_override`` -- h typed in by hand instead of computed.
         * ``air.flow.approach_velocity`` or ``air.flow.volume_flow`` with no ``air.bypass``
           block: the sink is taken as fully ducted, optimistic for a sink in an open stream.
+        * ``air.bypass.free_stream`` -- a sink in an open stream: names the bypass model and
+          its uncertainty, and that the result rests on the stated approach flow.
         * ``sink.fins`` -- natural convection, vertical fins, with a fin gap below
           :data:`TIGHT_GAP_RATIO` of the Bar-Cohen & Rohsenow optimum spacing (at the solved
           base temperature) or below :data:`TIGHT_GAP_FLOOR`.
@@ -153,7 +155,16 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
             f"air.flow.{given[0]}: no air.bypass is stated, so the sink is taken as fully "
             "ducted (all the air goes through the fins); a sink in an open stream or with "
             "clearance to the walls sees much less. State air.bypass (side_gap and top_gap, "
-            "0 mm when the duct really touches the fins)"
+            "0 mm when the duct really touches the fins; free_stream: true for a sink "
+            "standing in an open stream)"
+        )
+    elif given and _attr(air, "bypass", "free_stream"):
+        flags.append(
+            "air.bypass.free_stream: the sink stands unshrouded in the stream, so only part of "
+            "the air aimed at it passes through the fins (Lee 1995 bypass balance with an "
+            "unbounded bypass region, as Simons & Schmidt 1997; about ±10-20 % on the fin "
+            f"flow); the result rests on air.flow.{given[0]}: measure the approach velocity at "
+            "the sink over the fin height, with the sink removed"
         )
     # 6. fin gaps and fins that cannot be made (forced and natural convection)
     flags += _manufacturing_flags(case)

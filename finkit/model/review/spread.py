@@ -7,7 +7,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from finkit.model.design import SinkInputs, limit_node_temperature, solve
+from finkit.model.design import SinkInputs, airflow_of, limit_node_temperature, solve
 from finkit.model.review.scenarios import (
     _allowable_power,
 )
@@ -157,9 +157,16 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
     if not combos:
         combos = [{}]
     rows = []
+    # The heat-transfer correlation does not move the flow; the loss model (and the pin
+    # bank's method, by its pressure drop) can: one airflow per combination of those.
+    airflows = {}
     for combo in combos:
         variant = replace(inputs, options=replace(inputs.options, **combo))
-        sol = solve(variant)
+        flow_key = (variant.options.loss_model, variant.options.pin_bank_method)
+        if flow_key not in airflows:
+            airflows[flow_key] = airflow_of(variant)
+        airflow = airflows[flow_key]
+        sol = solve(variant, airflow=airflow)
         rows.append(
             SpreadRow(
                 label=", ".join(f"{k}={v}" for k, v in combo.items()) or "as chosen",
@@ -170,7 +177,7 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
                 sink_resistance=float(sol.sink_resistance),
                 pressure_drop=float(sol.pressure_drop),
                 volume_flow=float(sol.volume_flow),
-                allowable_power=_allowable_power(variant),
+                allowable_power=_allowable_power(variant, airflow),
             )
         )
     chosen_row = rows[0]

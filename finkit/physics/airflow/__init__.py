@@ -10,6 +10,8 @@ everything in the air path. This module holds the pieces of that balance (docs/m
 * flow bypass -- a sink in a duct with clearance gaps: the flow splits between fins and gaps so
   that both branches see the same pressure difference (:func:`split_bypass`,
   :func:`operating_point_with_bypass`), with :func:`bypass_gap_pressure_drop` for the gaps;
+* a sink standing unshrouded in an approach stream -- the share of the stream through the
+  fins from Lee's bypass balance (:func:`sink_flow_free_stream_lee`);
 * :func:`bracketed_root` -- the vectorised bracketed root finder used by all of the above.
 
 System pressure drops are passed as callables ``dp(volume_flow) -> pressure_drop`` [Pa] that
@@ -29,19 +31,21 @@ Design choices, stated once:
   the curve) and flags ``is_in_stall_region`` when that point lies on a rising part.
 
 Modules: :mod:`~finkit.physics.airflow.roots`, :mod:`~finkit.physics.airflow.fans`,
-:mod:`~finkit.physics.airflow.operating_point`, :mod:`~finkit.physics.airflow.bypass`. Their
+:mod:`~finkit.physics.airflow.operating_point`, :mod:`~finkit.physics.airflow.bypass`,
+:mod:`~finkit.physics.airflow.free_stream`. Their
 public names are re-exported here; code inside finkit imports a name from the module that
 defines it.
 """
 
-from finkit.physics.airflow import bypass, fans, operating_point, roots
+from finkit.physics.airflow import bypass, fans, free_stream, operating_point, roots
 from finkit.physics.airflow.bypass import *  # noqa: F403
 from finkit.physics.airflow.fans import *  # noqa: F403
+from finkit.physics.airflow.free_stream import *  # noqa: F403
 from finkit.physics.airflow.operating_point import *  # noqa: F403
 from finkit.physics.airflow.roots import *  # noqa: F403
 
 __all__ = [
     name
-    for module in (roots, fans, operating_point, bypass)
+    for module in (roots, fans, operating_point, bypass, free_stream)
     for name in getattr(module, "__all__", ())
 ]

@@ -19,7 +19,8 @@ Two questions are answered for every design, vectorised over any number of desig
   sink carry?
 
 Forced convection (plate fins, pin fins): the airflow is fixed first (given velocity, given
-volume flow, or the fan curve crossed with the system curve, with bypass), with pressure drop
+volume flow, or the fan curve crossed with the system curve, with bypass; or a free stream
+round an unshrouded sink), with pressure drop
 and fan evaluated at the inlet air density and viscosity. Heat transfer uses air properties at
 the film temperature between the inlet air and the mean base temperature; because that
 temperature depends on the answer, a short fixed-point iteration couples them (the "property

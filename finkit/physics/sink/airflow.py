@@ -12,6 +12,10 @@ from finkit.physics.airflow.bypass import (
     operating_point_with_bypass,
     split_among_branches,
 )
+from finkit.physics.airflow.free_stream import (
+    FREE_STREAM_APPROACH_VELOCITY,
+    sink_flow_free_stream_lee,
+)
 from finkit.physics.airflow.operating_point import operating_point
 from finkit.physics.correlations import forced
 from finkit.physics.geometry import PinFinSink, PlateFinSink
@@ -22,11 +26,13 @@ from finkit.physics.sink.inputs import (
     Bypass,
     FanDriven,
     Flow,
+    FreeStream,
     GivenVelocity,
     GivenVolumeFlow,
     ModelOptions,
     _passage_thickness,
 )
+from finkit.validity import check_range
 
 __all__ = [
     "STALL_WARNING",
@@ -68,10 +74,12 @@ def _fin_height(geometry) -> np.ndarray:
     return geometry.fin_height if isinstance(geometry, PlateFinSink) else geometry.pin_height
 
 
-def _is_shrouded(bypass: Bypass | None):
+def _is_shrouded(bypass: Bypass | FreeStream | None):
     """True (per design) where a shroud touches the fin tips: no bypass, or no top gap."""
     if bypass is None:
         return True
+    if isinstance(bypass, FreeStream):
+        return False
     return np.asarray(bypass.top_gap, float) <= 0
 
 
@@ -81,7 +89,7 @@ def _bypass_geometry(geometry, bypass: Bypass | None):
     Two branches: the two side gaps (``2 s H``, a slot of width s: ``D_h ≈ 2 s``) and the gap
     above the fin tips (``g (W + 2 s)``, ``D_h ≈ 2 g``). A branch with zero area is closed.
     """
-    if bypass is None:
+    if bypass is None or isinstance(bypass, FreeStream):
         return None
     side, top = np.asarray(bypass.side_gap, float), np.asarray(bypass.top_gap, float)
     height = _fin_height(geometry)
@@ -119,9 +127,59 @@ def _bypass_pressure_drop(geometry, bypass: Bypass, branches, density, viscosity
     return tuple(branch(name) for name in branches)
 
 
+def _sink_exit_area(geometry) -> np.ndarray:
+    """Free-flow area of the narrowest section of the fins [m²] (between plates or pins)."""
+    if isinstance(geometry, PlateFinSink):
+        return np.asarray(geometry.open_frontal_area, float)
+    return np.asarray(geometry.frontal_area * geometry.min_free_flow_ratio, float)
+
+
+def _free_stream_airflow(geometry, flow: Flow, density, dp_sink) -> _Airflow:
+    """Airflow of a sink standing unshrouded in an approach stream (:class:`FreeStream`).
+
+    The approach velocity is given, or a volume flow over the sink's frontal area; the share
+    through the fins is Lee's bypass balance with an unbounded bypass region
+    (:func:`finkit.physics.airflow.sink_flow_free_stream_lee`). ``volume_flow`` of the result is
+    the stream's flow through the frontal area, ``bypass_volume_flow`` the part of it that goes
+    round the sink.
+    """
+    frontal = _sink_frontal_area(geometry)
+    if isinstance(flow, GivenVelocity):
+        velocity = np.asarray(flow.approach_velocity, float)
+    elif isinstance(flow, GivenVolumeFlow):
+        velocity = np.asarray(flow.volume_flow, float) / frontal
+    elif isinstance(flow, FanDriven):
+        raise InputError(
+            "air.flow.fan: a fan against an unshrouded sink in a free stream has no defined "
+            "system curve (the air goes round the sink); give air.flow.approach_velocity or "
+            "volume_flow, or describe the duct with air.bypass side_gap and top_gap"
+        )
+    else:
+        raise InputError("air.flow: natural convection has no forced airflow to solve")
+    split = sink_flow_free_stream_lee(
+        velocity, frontal, _sink_exit_area(geometry), dp_sink, density
+    )
+    converged = np.asarray(split.is_converged)
+    if not np.all(converged):
+        raise SolverError(
+            "air.bypass.free_stream: the flow through the fins could not be solved for "
+            f"{int(np.sum(~converged))} design(s)"
+        )
+    return _Airflow(
+        *np.broadcast_arrays(
+            np.asarray(split.approach_volume_flow, float),
+            np.asarray(split.sink_volume_flow, float),
+            np.asarray(split.bypass_volume_flow, float),
+            np.asarray(velocity, float),
+            np.asarray(split.pressure_drop, float),
+        ),
+        warnings=tuple(check_range(FREE_STREAM_APPROACH_VELOCITY, velocity)),
+    )
+
+
 def _duct_area(geometry, bypass: Bypass | None) -> np.ndarray:
     frontal = _sink_frontal_area(geometry)
-    if bypass is None:
+    if bypass is None or isinstance(bypass, FreeStream):
         return frontal
     height = _fin_height(geometry)
     return (geometry.base_width + 2 * np.asarray(bypass.side_gap, float)) * (
@@ -211,14 +269,16 @@ def solve_airflow(
     geometry,
     flow: Flow,
     air: Air,
-    bypass: Bypass | None = None,
+    bypass: Bypass | FreeStream | None = None,
     options: ModelOptions = DEFAULT_OPTIONS,
 ) -> _Airflow:
     """Volume flow through the fins and round them, and the pressure drop, for a forced case.
 
     The approach velocity of :class:`GivenVelocity` is taken over the duct section (finned
-    region plus bypass gaps). With a bypass, the flow splits so that the fins and the gaps see
-    the same pressure difference (docs/methods.md h). With a fan, the fan curve, scaled to the inlet
+    region plus bypass gaps); for a sink in a free stream (:class:`FreeStream`) it is the
+    undisturbed stream's velocity, and the share through the fins is Lee's bypass balance.
+    With a bypass, the flow splits so that the fins and the gaps see the same pressure
+    difference (docs/methods.md h). With a fan, the fan curve, scaled to the inlet
     density and by ``options.fan_pressure_factor``, is crossed with that combined system curve
     plus any extra series loss.
 
@@ -231,8 +291,9 @@ def solve_airflow(
         :class:`InputError` [-].
     air : Air
         Inlet air temperature [K] and pressure [Pa]; the air properties are taken at the inlet.
-    bypass : Bypass, optional
-        Duct clearance round the sink; None = fully shrouded, no bypass [-].
+    bypass : Bypass or FreeStream, optional
+        Duct clearance round the sink, or a free stream with no duct; None = fully shrouded,
+        no bypass [-].
     options : ModelOptions, optional
         Model choices, pressure-drop and fan-pressure factors, extra series loss [-].
     """
@@ -244,6 +305,8 @@ def solve_airflow(
     def dp_sink(q):
         return sink_pressure_drop(geometry, q, rho, mu, is_shrouded=shrouded, options=options)
 
+    if isinstance(bypass, FreeStream):
+        return _free_stream_airflow(geometry, flow, rho, dp_sink)
     if gaps is not None:
         bypass_branches = _bypass_pressure_drop(geometry, bypass, gaps, rho, mu)
 

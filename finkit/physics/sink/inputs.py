@@ -21,6 +21,7 @@ __all__ = [
     "FanDriven",
     "Flow",
     "FreeConvectionCredit",
+    "FreeStream",
     "GivenVelocity",
     "GivenVolumeFlow",
     "HeatSource",
@@ -179,6 +180,20 @@ class Bypass:
     side_gap: float | np.ndarray = 0.0
     top_gap: float | np.ndarray = 0.0
     loss_coefficient: float = 1.0
+
+
+@dataclass(frozen=True)
+class FreeStream:
+    """The sink stands unshrouded in an approach stream: no duct, the stream goes round it.
+
+    The third flow situation beside the fully ducted sink (no bypass) and the sink in a duct
+    with clearance (:class:`Bypass`). The share of the stream through the fins comes from
+    Lee's bypass balance with an unbounded bypass region
+    (:func:`finkit.physics.airflow.sink_flow_free_stream_lee`); the fin tips see the air. A
+    given approach velocity is that of the undisturbed stream; a given volume flow is the
+    flow that stream carries through the sink's frontal area (approach velocity times base
+    width times fin height). A fan is not defined against an unshrouded sink.
+    """
 
 
 @dataclass(frozen=True)

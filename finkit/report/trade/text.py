@@ -227,7 +227,11 @@ def method_section(note: TradeNote) -> present.Fragment:
     kept = (
         "Everything else of the case is kept: the heat source and interface, the air "
         "(inlet temperature, altitude), the "
-        + ("natural convection" if note.is_natural else "fan or given flow and the bypass gaps")
+        + (
+            "natural convection"
+            if note.is_natural
+            else "fan or given flow and the bypass statement"
+        )
         + ", the material and finish, the limit and its required margin."
     )
     evaluated = (
@@ -556,7 +560,7 @@ def cautions(note: TradeNote) -> present.Fragment:
     note : TradeNote
         From :func:`run`. [-]
     """
-    from finkit.report.formatting import _bullets
+    from finkit.report.formatting import _bullets, _is_free_stream
 
     bypass = note.result.inputs.bypass
     items = [
@@ -578,7 +582,13 @@ def cautions(note: TradeNote) -> present.Fragment:
             "inlet air, fan, dust, tolerances) puts it over; run the chosen design's own note "
             "with the case's scenarios and tolerances before adopting it."
         )
-    if bypass is not None and not note.is_natural:
+    if _is_free_stream(note.result) and not note.is_natural:
+        items.append(
+            "Every design stands unshrouded in the same approach stream; the share of the "
+            "stream through its fins is re-solved for each design (Lee's bypass balance, free "
+            "stream): a denser or taller fin array sends more of the stream round the sink."
+        )
+    elif bypass is not None and not note.is_natural:
         items.append(
             "The bypass gaps are kept as in the case for every design. In a duct of fixed "
             "height a shorter fin leaves a larger gap above the tips, so more air bypasses the "
