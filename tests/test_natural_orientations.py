@@ -279,7 +279,7 @@ def test_check_names_the_correlation_source_and_range():
         "natural convection (horizontal-base-fins-up): horizontal base, fins up: Jones & Smith "
         "(1970)" in out.stdout
     )
-    assert "Ra_S 200 to 6e5" in out.stdout
+    assert "Ra_S 200 to 6e5; constants recalled" in out.stdout
 
 
 def test_method_section_names_jones_smith(up_result):

@@ -64,8 +64,9 @@ ORIENTATION_METHODS = {
     ),
     "horizontal-base-fins-up": (
         "horizontal base, fins up: Jones & Smith (1970) horizontal fin-array correlation on the "
-        "Rayleigh number of the fin spacing (range Ra_S 200 to 6e5), h on the whole fin and "
-        "base surface; radiation by the envelope method"
+        "Rayleigh number of the fin spacing (range Ra_S 200 to 6e5; constants recalled, checked "
+        "through their upward-plate limit), h on the whole fin and base surface; radiation by "
+        "the envelope method"
     ),
 }
 
