@@ -95,7 +95,7 @@ def normal_quantile(p):
     Examples
     --------
     >>> round(float(normal_quantile(0.975)), 12)
-    1.959963984540
+    1.95996398454
     """
     p = np.asarray(p, float)
     q = p - 0.5
@@ -108,6 +108,8 @@ def normal_quantile(p):
             _ratio(_FAR_NUM, _FAR_DEN, tail - 5.0),
         )
     out = np.where(np.abs(q) <= 0.425, central, np.where(q < 0.0, -far, far))
+    out = np.where(p == 0.0, -np.inf, np.where(p == 1.0, np.inf, out))
+    out = np.where((p >= 0.0) & (p <= 1.0), out, np.nan)
     return out if out.ndim else out[()]
 
 

@@ -631,3 +631,14 @@ def test_coarser_equation_glyphs_stay_within_half_a_step_of_matplotlibs_outline(
             if not (i > 0 and c == fine_commands[i - 1] and c in "LQ")
         ]
         assert coarse_commands == collapsed
+
+
+def test_a_glyph_without_an_outline_is_left_as_it_is():
+    # A space has no outline: matplotlib writes only its id and transform (the id's "d='"
+    # must not be taken for an outline).
+    from finkit.report import present
+
+    blank = "<path id='STIXGeneral-Regular-3' transform='scale(0.015625)'/>"
+    assert present._coarser_glyphs(blank) == blank
+    uri = present._equation_uri(r"a \quad b", 13.0)
+    assert "scale(0.5)" in uri

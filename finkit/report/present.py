@@ -402,7 +402,7 @@ def _svg_data_uri(svg: str) -> str:
 
 
 #: A glyph outline as matplotlib writes it: font units of 1/64, scaled when drawn.
-_GLYPH_PATH = re.compile(r"d='([^']*)' transform='scale\(0\.015625\)'")
+_GLYPH_PATH = re.compile(r"(?<= )d='([^']*)' transform='scale\(0\.015625\)'")
 #: Coarsening of the glyph coordinates: 32 of matplotlib's units become one.
 _GLYPH_STEP = 32
 
@@ -428,7 +428,10 @@ def _coarser_glyphs(svg: str) -> str:
                 previous = token
                 out.append(token)
             else:
-                out.append(str(round(float(token) / _GLYPH_STEP)))
+                try:
+                    out.append(str(round(float(token) / _GLYPH_STEP)))
+                except ValueError:  # not an outline as expected: leave this glyph as it is
+                    return match.group(0)
         return f"d='{' '.join(out)}' transform='scale({_GLYPH_STEP / 64:g})'"
 
     return _GLYPH_PATH.sub(coarser, svg)
