@@ -216,6 +216,16 @@ def _source_lines(payload: dict) -> list[str]:
     return lines
 
 
+def _natural_method_line(case) -> str | None:
+    """``natural convection (ORIENTATION): correlation, source, range`` of a still-air case."""
+    natural = getattr(getattr(getattr(case, "air", None), "flow", None), "natural", None)
+    if natural is None:
+        return None
+    from finkit.physics.correlations.natural import ORIENTATION_METHODS
+
+    return f"natural convection ({natural.orientation}): {ORIENTATION_METHODS[natural.orientation]}"
+
+
 def _flow_lines(result) -> list[str]:
     """How the air reaches a forced-flow sink with bypass, and what share goes round it."""
     from finkit.physics.sink.inputs import Bypass, FreeStream
@@ -253,6 +263,9 @@ def _check(args) -> int:
     print(f"case {case.case_id}: status {status.upper()}")
     for line in _governing_lines(payload) + _source_lines(payload) + _condition_lines(payload):
         print(line)
+    method = _natural_method_line(case)
+    if method:
+        print(method)
     for line in _flow_lines(result):
         print(line)
     if getattr(result, "transient", None) is not None:

@@ -66,7 +66,7 @@ def main(argv: list[str] | None = None) -> int:
             failed += 1
             print(f"  {path.name}: could not be rendered: {exc}", file=sys.stderr)
             continue
-        print(f"  {path.name:28s} -> {note.html}")
+        print(f"  {path.name:30s} -> {note.html}")
     if failed:
         print(f"{failed} demo note(s) failed", file=sys.stderr)
     print(

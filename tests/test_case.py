@@ -315,7 +315,8 @@ def test_natural_flow_rules():
     data = starter("natural")
     data["air"]["flow"]["natural"]["orientation"] = "horizontal"
     assert errors_of(data) == [
-        "air.flow.natural.orientation: not allowed (got 'horizontal'; allowed: vertical-fins)"
+        "air.flow.natural.orientation: not allowed (got 'horizontal'; allowed: vertical-fins, "
+        "horizontal-base-fins-up)"
     ]
 
 

@@ -162,7 +162,8 @@ def test_the_case_credit_lowers_the_junction_and_silences_the_richardson_warning
         ),
         (
             {"orientation": "sideways", "forced_flow": "upward"},
-            "air.flow.free_convection.orientation: got 'sideways'; allowed: vertical-fins",
+            "air.flow.free_convection.orientation: got 'sideways'; allowed: vertical-fins, "
+            "horizontal-base-fins-up",
         ),
     ],
 )

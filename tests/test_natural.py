@@ -311,10 +311,12 @@ def test_plate_fin_array_natural_geometry_errors():
 
 def test_orientation_check():
     assert natural.natural_orientation_check("vertical-fins") == "vertical-fins"
+    assert natural.natural_orientation_check("horizontal-base-fins-up") == "horizontal-base-fins-up"
     with pytest.raises(NotSupportedError) as info:
-        natural.natural_orientation_check("horizontal-base-fins-up")
+        natural.natural_orientation_check("horizontal-base-fins-down")
     msg = str(info.value)
-    assert "'horizontal-base-fins-up'" in msg and "'vertical-fins'" in msg and "\n" not in msg
+    assert "'horizontal-base-fins-down'" in msg and "'vertical-fins'" in msg and "\n" not in msg
+    assert "'horizontal-base-fins-up'" in msg
 
 
 def test_plate_fin_natural_warnings():

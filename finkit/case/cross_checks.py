@@ -180,8 +180,9 @@ def _cross_checks_heat_sink(raw) -> list[str]:
     is_natural = isinstance(flow, dict) and "natural" in flow
     if is_natural and sink_type == "pin-fin":
         out.append(
-            "air.flow.natural: natural convection is not supported for sink.type 'pin-fin' in "
-            "this version (got pin-fin; allowed: plate-fin)"
+            "air.flow.natural: natural convection is not supported for sink.type 'pin-fin' "
+            "(no published pin-fin array correlation for still air could be confirmed; got "
+            "pin-fin; allowed: plate-fin)"
         )
     if is_natural and _get(raw, "air", "bypass") is not None:
         out.append("air.bypass: applies to forced flow only (air.flow is natural); remove it")

@@ -153,7 +153,8 @@ class SourceOnBase(_Model):
     """One of several sources on the base (``sources:``), placed where it sits.
 
     ``centre_along`` is the distance of the footprint centre from the inlet edge of the base
-    (in natural convection: from the lower edge), ``centre_across`` from the left side edge
+    (natural convection, vertical fins: from the lower edge; fins up on a horizontal base:
+    from the edge where ``base.length`` starts), ``centre_across`` from the left side edge
     looking downstream (upward) [m]. ``footprint_length`` lies along the flow. Without its own
     ``limit`` the case's ``limit`` applies to the source.
     """
@@ -347,9 +348,15 @@ class Fan(_Model):
 
 
 class Natural(_Model):
-    """Natural convection; ``orientation`` of the fins (only vertical fins in this version)."""
+    """Natural convection (plate fins); ``orientation`` of the sink in still air.
 
-    orientation: Literal["vertical-fins"]
+    ``vertical-fins``: base vertical, fins vertical, air rising along the fin length.
+    ``horizontal-base-fins-up``: base horizontal, fins standing up from it. Other orientations
+    (fins hanging down, horizontal fins on a vertical base) have no correlation finkit could
+    confirm and are refused (``finkit.physics.correlations.natural.SUPPORTED_ORIENTATIONS``).
+    """
+
+    orientation: Literal["vertical-fins", "horizontal-base-fins-up"]
 
 
 class FreeConvection(_Model):

@@ -38,13 +38,20 @@ def free_convection_method(result, cite) -> list[Any]:
         "upward": "the forced flow rises, so buoyancy aids it",
         "horizontal": "the forced flow is horizontal, so buoyancy crosses it",
     }[credit.forced_flow]
+    natural_model = (
+        f"the fin-array correlation of Jones & Smith {cite('jones_smith')}"
+        if credit.orientation == "horizontal-base-fins-up"
+        else f"the channel correlation of Bar-Cohen & Rohsenow {cite('bar_cohen')} and, on the "
+        f"end-fin outer faces, Churchill & Chu {cite('churchill_chu')}"
+    )
     return [
         present.heading("Free convection beside the weak forced flow", 3),
         present.text(
             f"The case credits free convection at this low flow ({direction}; orientation "
             f"'{credit.orientation}'). The sink's forced-convection conductance G_F = 1/R_sink "
             "(air heating included) and its natural-convection conductance G_N in that "
-            "orientation, at the same base temperature, are combined by Churchill's rule for "
+            f"orientation ({natural_model}), at the same base temperature, are combined by "
+            "Churchill's rule for "
             f"assisting and transverse flows with n = 3 {cite('churchill_mixed')}; of the "
             "exponents 3 to 4 in use, 3 gives the lowest combined value (conservative). The "
             "rule is applied to the whole sink's conductances referred to the inlet air "

@@ -71,6 +71,8 @@ _REFS = {
     "convection cooled, parallel plates, J. Heat Transfer 106(1), 116-123, 1984.",
     "elenbaas": "Elenbaas, W., Heat dissipation of parallel plates by free convection, Physica "
     "9(1), 1-28, 1942.",
+    "jones_smith": "Jones, C.D., Smith, L.F., Optimum arrangement of rectangular fins on "
+    "horizontal surfaces for free-convection heat transfer, J. Heat Transfer 92(1), 6-10, 1970.",
     "churchill_chu": "Churchill, S.W., Chu, H.H.S., Correlating equations for laminar and "
     "turbulent free convection from a vertical plate, Int. J. Heat Mass Transfer 18, "
     "1323-1329, 1975.",
@@ -103,12 +105,19 @@ _REFS = {
 }
 
 
+def _orientation(result) -> str:
+    """The still-air orientation of a natural-convection case (``NaturalConvection``)."""
+    return getattr(result.inputs.flow, "orientation", "vertical-fins")
+
+
 def _reference_keys(result) -> list[str]:
     if not _is_heat_sink(result):
         return ["incropera"]
     opts = result.inputs.options
     keys = []
-    if _is_natural(result):
+    if _is_natural(result) and _orientation(result) == "horizontal-base-fins-up":
+        keys += ["jones_smith", "incropera"]
+    elif _is_natural(result):
         method = getattr(opts, "natural_channel_method", "bar_cohen_rohsenow")
         keys += ["bar_cohen" if method == "bar_cohen_rohsenow" else "elenbaas", "churchill_chu"]
         keys += ["incropera"]
@@ -131,7 +140,10 @@ def _reference_keys(result) -> list[str]:
         keys.append("bypass")
         if _is_free_stream(result):
             keys.append("simons_schmidt")
-    if free_convection_credit(result) is not None:
+    credit = free_convection_credit(result)
+    if credit is not None and credit.orientation == "horizontal-base-fins-up":
+        keys += ["churchill_mixed", "jones_smith", "incropera"]
+    elif credit is not None:
         keys += ["churchill_mixed", "bar_cohen", "churchill_chu", "incropera"]
     keys += ["yovanovich_series"]
     if getattr(result.inputs, "sources", None) is not None:
@@ -281,7 +293,36 @@ def method_section(result) -> present.Fragment:
             "interpolated by finkit."
         ),
     ]
-    if _is_natural(result):
+    if _is_natural(result) and _orientation(result) == "horizontal-base-fins-up":
+        parts += [
+            present.heading("Natural convection from plate fins on a horizontal base, fins up", 3),
+            present.text(
+                "The base is horizontal and the fins stand up from it; air is drawn in over the "
+                "open ends and sides of the fin channels and leaves upward. Every convecting "
+                "surface (fin faces, fin tips, the base between and beside the fins) uses the "
+                f"array correlation of Jones & Smith {cite('jones_smith')}, built on the fin "
+                "spacing S, properties at the film temperature:"
+            ),
+            present.equation(
+                r"Nu_S = \dfrac{h\,S}{k_a} = 6.7\times10^{-4}\,Ra_S\left[1 - \exp\left(-"
+                r"\left(\dfrac{7640}{Ra_S}\right)^{0.44}\right)\right]^{1.7},\quad Ra_S = "
+                r"\dfrac{g\,\beta\,(T_b - T_{in})\,S^3}{\nu\,\alpha}"
+            ),
+            present.text(
+                "Validity: 200 ≤ Ra_S ≤ 6×10^5 (air), isothermal fins; a case outside it gets a "
+                "warning. The correlation has no fin height or length in it. Its constants "
+                "were recalled from the source, not read from it; for large Ra_S it reduces to "
+                "0.54 Ra^(1/4), the law of an upward-facing heated plate, which supports them. "
+                "There is no second accepted correlation for this orientation in finkit, so no "
+                "model-form spread is shown. Radiation leaves the array through the channel "
+                "openings (each channel a two-surface enclosure with an effective emissivity) "
+                "and from the outer surfaces, at the mean surface temperature, to surroundings "
+                f"at the stated temperature {cite('incropera')}. Because h depends on the base "
+                "temperature, the heat balance is solved for the base temperature by a "
+                "bracketed root search."
+            ),
+        ]
+    elif _is_natural(result):
         method = getattr(opts, "natural_channel_method", "bar_cohen_rohsenow")
         parts += [
             present.heading("Natural convection from vertical plate fins", 3),
@@ -576,8 +617,14 @@ def assumptions(result) -> present.Fragment:
     ]
     if _is_natural(result):
         items += [
-            "Vertical base with vertical fins in still air, free to draw air from below and "
-            "release it above; no enclosure walls, chimney or neighbouring heat sources.",
+            (
+                "Horizontal base facing up with the fins standing up from it, in still air, "
+                "free to draw air in over the open fin ends and sides and release it above"
+                if _orientation(result) == "horizontal-base-fins-up"
+                else "Vertical base with vertical fins in still air, free to draw air from "
+                "below and release it above"
+            )
+            + "; no enclosure walls, chimney or neighbouring heat sources.",
             "Air properties for convection at the film temperature (ambient air and base mean).",
             "Radiation from an isothermal sink at its mean surface temperature to surroundings "
             "at the stated surroundings temperature.",
@@ -761,8 +808,14 @@ def cautions(result) -> present.Fragment:
         )
     else:
         items += [
-            "Natural convection needs free inflow below and outflow above the fins. Covers, "
-            "nearby walls, another mounting orientation or neighbouring hot parts change h "
+            (
+                "Natural convection needs free inflow over the open fin ends and sides and "
+                "outflow above the fins. Covers, "
+                if _orientation(result) == "horizontal-base-fins-up"
+                else "Natural convection needs free inflow below and outflow above the fins. "
+                "Covers, "
+            )
+            + "nearby walls, another mounting orientation or neighbouring hot parts change h "
             "strongly; radiation depends on the finish staying as specified.",
             "Dust on the fins and finish ageing lower both convection and radiation.",
         ]

@@ -85,9 +85,9 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
           block: the sink is taken as fully ducted, optimistic for a sink in an open stream.
         * ``air.bypass.free_stream`` -- a sink in an open stream: names the bypass model and
           its uncertainty, and that the result rests on the stated approach flow.
-        * ``sink.fins`` -- natural convection with a fin gap below :data:`TIGHT_GAP_RATIO` of
-          the Bar-Cohen & Rohsenow optimum spacing (at the solved base temperature) or below
-          :data:`TIGHT_GAP_FLOOR`.
+        * ``sink.fins`` -- natural convection, vertical fins, with a fin gap below
+          :data:`TIGHT_GAP_RATIO` of the Bar-Cohen & Rohsenow optimum spacing (at the solved
+          base temperature) or below :data:`TIGHT_GAP_FLOOR`.
     """
     if getattr(case, "kind", "heat-sink") != "heat-sink":
         return []
@@ -117,7 +117,13 @@ def sanity_flags(case, inputs: SinkInputs | None = None) -> list[str]:
         )
 
     # 4. tight fin gaps in natural convection
-    if _attr(air, "flow", "natural") is not None and sink.type == "plate-fin":
+    # (the optimum is Bar-Cohen & Rohsenow's, for vertical fins only)
+    natural_flow = _attr(air, "flow", "natural")
+    if (
+        natural_flow is not None
+        and sink.type == "plate-fin"
+        and (_attr(natural_flow, "orientation") == "vertical-fins")
+    ):
         if inputs is None:
             from finkit.model.design import sink_inputs
 

@@ -111,7 +111,9 @@ class CorrelationSpread:
 
 def _spread_axes(inputs: SinkInputs) -> dict[str, tuple[str, ...]]:
     if isinstance(inputs.flow, NaturalConvection):
-        candidates = {"natural_channel_method": NATURAL_CHANNEL_METHODS}
+        # The two channel correlations are for vertical fins; other orientations have one.
+        vertical = inputs.flow.orientation == "vertical-fins"
+        candidates = {"natural_channel_method": NATURAL_CHANNEL_METHODS} if vertical else {}
     elif isinstance(inputs.geometry, PlateFinSink):
         candidates = {
             "plate_channel_method": PLATE_CHANNEL_CHOICES,

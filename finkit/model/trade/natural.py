@@ -45,7 +45,8 @@ class NaturalFinCountOptimum(NamedTuple):
         Gap of every count [m].
     optimum_spacing_bar_cohen_rohsenow : float
         ``S_opt = 2.714 (g β ΔT / (ν α L))^(-1/4)`` for the fin length and the base excess of the
-        best design, air at its film temperature [m].
+        best design, air at its film temperature; NaN for an orientation other than
+        ``"vertical-fins"`` (the optimum is for vertical fins) [m].
     objective : str
         ``heat_rate`` or ``junction_temperature``.
     """
@@ -165,8 +166,14 @@ def optimum_fin_count_natural(
     air = air_properties(film, inputs.air.pressure)
     nu = float(air.kinematic_viscosity)
     alpha = float(air.thermal_diffusivity)
-    s_opt = float(
-        optimum_fin_spacing_bar_cohen_rohsenow(float(g.base_length), film_excess, film, nu, alpha)
+    s_opt = (
+        float(
+            optimum_fin_spacing_bar_cohen_rohsenow(
+                float(g.base_length), film_excess, film, nu, alpha
+            )
+        )
+        if inputs.flow.orientation == "vertical-fins"
+        else float("nan")  # Bar-Cohen & Rohsenow's optimum is for vertical fins only
     )
     return NaturalFinCountOptimum(
         fin_count=int(counts[i]),

@@ -1,8 +1,11 @@
-"""Natural (free) convection: isolated vertical plates and vertical plate-fin channels.
+"""Natural (free) convection: vertical plates, vertical plate-fin channels, horizontal fin arrays.
 
-Only the orientation with a published method is covered: base vertical, fins vertical, air rising
-along the fin length (``"vertical-fins"``). Every other orientation raises
-:class:`finkit.errors.NotSupportedError` through :func:`natural_orientation_check`.
+Two orientations of a plate-fin sink are covered: base vertical, fins vertical, air rising along
+the fin length (``"vertical-fins"``: Bar-Cohen & Rohsenow channels, Churchill & Chu outer faces),
+and base horizontal with the fins standing up from it (``"horizontal-base-fins-up"``: Jones &
+Smith 1970). Every other orientation (fins hanging down from a horizontal base, horizontal fins
+on a vertical base) and pin fins raise :class:`finkit.errors.NotSupportedError` through
+:func:`natural_orientation_check`: no published correlation for them could be confirmed.
 
 Conventions: temperatures in K, ``beta = 1/T_film`` (ideal gas), ``g`` is
 :data:`finkit.constants.STANDARD_GRAVITY`. Air properties are passed in as arrays by the caller
@@ -25,21 +28,47 @@ __all__ = [
     "CHURCHILL_CHU_ALL_RANGE",
     "CHURCHILL_CHU_LAMINAR_RANGE",
     "ELENBAAS_RANGE",
+    "HorizontalFinArrayNatural",
+    "JONES_SMITH_RANGE",
+    "ORIENTATION_METHODS",
     "OPTIMUM_SPACING_CONSTANTS",
     "SUPPORTED_ORIENTATIONS",
+    "UNSUPPORTED_ORIENTATIONS",
     "PlateFinArrayNatural",
     "natural_orientation_check",
+    "nusselt_horizontal_fin_array_jones_smith",
     "nusselt_vertical_channel_bar_cohen_rohsenow",
     "nusselt_vertical_channel_elenbaas",
     "nusselt_vertical_plate_churchill_chu",
     "optimum_fin_spacing_bar_cohen_rohsenow",
+    "horizontal_fin_array_natural",
     "plate_fin_array_natural",
     "plate_fin_natural_warnings",
     "rayleigh_number",
 ]
 
 #: Orientations for which finkit has a published natural-convection method.
-SUPPORTED_ORIENTATIONS = ("vertical-fins",)
+SUPPORTED_ORIENTATIONS = ("vertical-fins", "horizontal-base-fins-up")
+
+#: Orientations named in the trade for which no published correlation could be confirmed; they
+#: raise NotSupportedError (with the supported ones named) rather than "unknown".
+UNSUPPORTED_ORIENTATIONS = ("horizontal-base-fins-down", "vertical-base-horizontal-fins")
+
+#: One line per supported orientation: what is modelled, the correlation, its source and range
+#: (``finkit check`` prints it; the note's method section says the same at length).
+ORIENTATION_METHODS = {
+    "vertical-fins": (
+        "vertical base, vertical fins: Bar-Cohen & Rohsenow (1984) channel composite on the "
+        "Elenbaas number (range El 0.1 to 1e5), Churchill & Chu (1975) on the end-fin outer faces "
+        "(Ra_L 0.1 to 1e9); radiation by the envelope method"
+    ),
+    "horizontal-base-fins-up": (
+        "horizontal base, fins up: Jones & Smith (1970) horizontal fin-array correlation on the "
+        "Rayleigh number of the fin spacing (range Ra_S 200 to 6e5; constants recalled, checked "
+        "through their upward-plate limit), h on the whole fin and base surface; radiation by "
+        "the envelope method"
+    ),
+}
 
 #: Churchill & Chu laminar form (Incropera et al. 6th ed. Eq. 9.27), Rayleigh number on height.
 CHURCHILL_CHU_LAMINAR_RANGE = ValidityRange(
@@ -82,6 +111,17 @@ BAR_COHEN_ROHSENOW_RANGE = ValidityRange(
     "not confirmed",
 )
 
+#: Range of Jones & Smith (1970), horizontal-base fin arrays in air, on ``Ra_S`` (their
+#: ``Gr_S Pr`` with Pr of air). Recalled from the paper and the reviews that quote it; not checked
+#: against the original here (see :func:`nusselt_horizontal_fin_array_jones_smith`).
+JONES_SMITH_RANGE = ValidityRange(
+    method="Jones & Smith (1970) horizontal-base fin array",
+    quantity="Ra_S",
+    low=2e2,
+    high=6e5,
+    source="range 2e2 < Gr_S Pr < 6e5 recalled from Jones & Smith (1970), not confirmed",
+)
+
 #: Composite constants ``(C1, C2)`` of Bar-Cohen & Rohsenow for isothermal walls.
 BAR_COHEN_ROHSENOW_CONSTANTS = {
     "isothermal-symmetric": (576.0, 2.873),
@@ -118,8 +158,9 @@ def natural_orientation_check(orientation):
     Parameters
     ----------
     orientation : str
-        Orientation key of the heat sink [-]. Only ``"vertical-fins"`` (base vertical, fins
-        vertical, air rising along the fin length) is supported.
+        Orientation key of the heat sink [-]: ``"vertical-fins"`` (base vertical, fins vertical,
+        air rising along the fin length) or ``"horizontal-base-fins-up"`` (base horizontal, fins
+        standing up from it).
 
     Returns
     -------
@@ -129,15 +170,74 @@ def natural_orientation_check(orientation):
     Raises
     ------
     NotSupportedError
-        For any other orientation, e.g. ``"horizontal-base-fins-up"``.
+        For any other orientation, e.g. ``"horizontal-base-fins-down"``; the one-line message
+        names the supported ones.
     """
     if orientation in SUPPORTED_ORIENTATIONS:
         return orientation
-    raise NotSupportedError(
-        f"natural convection: orientation '{orientation}' is not supported; finkit has a "
-        "published method only for 'vertical-fins' (base vertical, fins vertical, air rising "
-        "along the fin length)"
+    why = (
+        "no published correlation for it could be confirmed"
+        if orientation in UNSUPPORTED_ORIENTATIONS
+        else "it is not an orientation finkit knows"
     )
+    raise NotSupportedError(
+        f"natural convection: orientation '{orientation}' is not supported ({why}); supported: "
+        + ", ".join(f"'{o}'" for o in SUPPORTED_ORIENTATIONS)
+    )
+
+
+def nusselt_horizontal_fin_array_jones_smith(rayleigh_spacing):
+    r"""Average Nusselt number of a plate-fin array on a horizontal base, fins up (Jones & Smith).
+
+    Parameters
+    ----------
+    rayleigh_spacing : float or array_like
+        Rayleigh number on the clear fin spacing S, ``Ra_S = g beta dT S^3/(nu alpha)`` with the
+        base-to-ambient temperature difference [-].
+
+    Returns
+    -------
+    numpy.ndarray or float
+        ``Nu_S = h S / k``, h averaged over the whole finned surface (fin faces and the base
+        between the fins) [-].
+
+    Notes
+    -----
+    .. math:: Nu_S = 6.7\times10^{-4}\,Ra_S
+              \left[1 - \exp\left(-\left(\frac{7640}{Ra_S}\right)^{0.44}\right)\right]^{1.7}
+
+    Isothermal fins of rectangular section standing up from a horizontal, upward-facing base in
+    air; air is drawn in over the open ends and sides and leaves upward. The correlation has no
+    fin height or fin length in it. Range: :data:`JONES_SMITH_RANGE` (``2e2 ≤ Ra_S ≤ 6e5``).
+    Properties at the film temperature, ``beta = 1/T_film``.
+
+    How confirmed: the form and the constants 6.7e-4, 7640, 0.44 and 1.7 are recalled from
+    Jones & Smith (1970) as quoted in later horizontal fin-array papers; the original could not
+    be read here. Check made here: for large ``Ra_S`` the bracket tends to
+    ``(7640/Ra_S)^{0.748}``, so ``Nu_S -> 6.7e-4 · 7640^{0.748} Ra_S^{0.252} = 0.538
+    Ra_S^{0.252}``, the upward-facing heated-plate law ``Nu = 0.54 Ra^{1/4}`` (Incropera et
+    al. 6th ed. Eq. 9.30; ``ht.conv_free_immersed.Nu_horizontal_plate_McAdams``) that a widely
+    spaced array is expected to approach (the length scales differ, so only the law's form and
+    coefficient are compared). The four recalled constants reproducing both the exponent
+    (``1 - 0.44·1.7 = 0.252`` against 1/4) and the coefficient (0.538 against 0.54) is strong
+    evidence that they are the published ones; no printed Jones & Smith data point was available
+    to test against (docs/methods.md g5).
+
+    References
+    ----------
+    Jones, C.D., Smith, L.F., "Optimum arrangement of rectangular fins on horizontal surfaces
+    for free-convection heat transfer", J. Heat Transfer 92(1), 6-10, 1970.
+
+    Examples
+    --------
+    >>> round(float(nusselt_horizontal_fin_array_jones_smith(1e4)), 2)
+    2.72
+    """
+    Ra = np.asarray(rayleigh_spacing, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        bracket = -np.expm1(-((7640.0 / Ra) ** 0.44))
+    # Ra_S = 0 (no temperature difference) gives Nu_S = 0
+    return np.where(Ra > 0.0, 6.7e-4 * Ra * bracket**1.7, 0.0)
 
 
 def rayleigh_number(
@@ -600,3 +700,93 @@ def plate_fin_natural_warnings(elenbaas, *, rayleigh_length=None, outer_face_for
         rng = CHURCHILL_CHU_ALL_RANGE if outer_face_form == "all" else CHURCHILL_CHU_LAMINAR_RANGE
         messages += check_range(rng, rayleigh_length)
     return messages
+
+
+class HorizontalFinArrayNatural(NamedTuple):
+    """Natural-convection coefficient of a plate-fin array on a horizontal base, fins up.
+
+    Attributes
+    ----------
+    rayleigh_spacing : numpy.ndarray
+        ``Ra_S`` on the clear fin spacing [-].
+    nusselt_spacing : numpy.ndarray
+        Jones & Smith ``Nu_S`` [-].
+    heat_transfer_coefficient : numpy.ndarray
+        ``h = Nu_S k / S``, on every convecting surface of the array: fin faces (the end fins'
+        outer faces too), fin tips and the base between the fins [W m⁻² K⁻¹].
+    """
+
+    rayleigh_spacing: np.ndarray
+    nusselt_spacing: np.ndarray
+    heat_transfer_coefficient: np.ndarray
+
+
+def horizontal_fin_array_natural(
+    fin_spacing,
+    surface_temperature,
+    ambient_temperature,
+    density,
+    dynamic_viscosity,
+    thermal_conductivity,
+    prandtl,
+):
+    """Natural-convection coefficient of a plate-fin sink with a horizontal base, fins up.
+
+    Parameters
+    ----------
+    fin_spacing : float or array_like
+        Clear gap between neighbouring fins, S [m].
+    surface_temperature : float or array_like
+        Base (array) temperature the coefficient is evaluated at; the caller iterates [K].
+    ambient_temperature : float or array_like
+        Ambient air temperature [K].
+    density : float or array_like
+        Air density at the film temperature [kg m⁻³].
+    dynamic_viscosity : float or array_like
+        Air dynamic viscosity at the film temperature [Pa s].
+    thermal_conductivity : float or array_like
+        Air thermal conductivity at the film temperature [W m⁻¹ K⁻¹].
+    prandtl : float or array_like
+        Air Prandtl number at the film temperature [-].
+
+    Returns
+    -------
+    HorizontalFinArrayNatural
+        ``Ra_S``, ``Nu_S`` and the coefficient.
+
+    Raises
+    ------
+    GeometryError
+        A non-positive fin spacing.
+
+    Notes
+    -----
+    ``Ra_S = g beta dT S^3/(nu alpha)`` with ``beta = 1/T_film``, ``nu = mu/rho``,
+    ``alpha = nu/Pr``; ``Nu_S`` from :func:`nusselt_horizontal_fin_array_jones_smith`,
+    ``h = Nu_S k / S``. Fin efficiency is not applied here (the sink model does it). Validity:
+    :data:`JONES_SMITH_RANGE` for ``rayleigh_spacing``.
+
+    References
+    ----------
+    Jones, C.D., Smith, L.F., J. Heat Transfer 92(1), 6-10, 1970.
+
+    Examples
+    --------
+    >>> r = horizontal_fin_array_natural(0.010, 353.15, 313.15, 1.09, 1.96e-5, 0.0281, 0.707)
+    >>> round(float(r.heat_transfer_coefficient), 1)
+    3.3
+    """
+    S = np.asarray(fin_spacing, dtype=float)
+    if np.any(S <= 0.0):
+        raise GeometryError(f"fin_spacing = {np.min(S):.4g} m is not allowed; must be > 0")
+    Ts = np.asarray(surface_temperature, dtype=float)
+    Ta = np.asarray(ambient_temperature, dtype=float)
+    nu = np.asarray(dynamic_viscosity, dtype=float) / np.asarray(density, dtype=float)
+    alpha = nu / np.asarray(prandtl, dtype=float)
+    Ra_S = rayleigh_number(S, Ts - Ta, 0.5 * (Ts + Ta), nu, alpha)
+    Nu_S = nusselt_horizontal_fin_array_jones_smith(Ra_S)
+    return HorizontalFinArrayNatural(
+        rayleigh_spacing=Ra_S,
+        nusselt_spacing=Nu_S,
+        heat_transfer_coefficient=Nu_S * np.asarray(thermal_conductivity, dtype=float) / S,
+    )

@@ -1,4 +1,4 @@
-"""Natural convection with radiation (vertical plate fins)."""
+"""Natural convection with radiation (plate fins: vertical, or horizontal base with fins up)."""
 
 from __future__ import annotations
 
@@ -29,9 +29,10 @@ __all__ = ["natural_heat_rate"]
 from finkit.physics.sink.results import (
     _above_base,
 )
+from finkit.validity import check_range
 
 # --------------------------------------------------------------------------------------
-# Natural convection with radiation (vertical plate fins)
+# Natural convection with radiation (plate fins)
 # --------------------------------------------------------------------------------------
 
 
@@ -52,14 +53,20 @@ class _NaturalState:
 
 
 def _natural_heat_rate(
-    geometry: PlateFinSink, material, air: Air, base_excess, options: ModelOptions
+    geometry: PlateFinSink,
+    material,
+    air: Air,
+    base_excess,
+    options: ModelOptions,
+    orientation: str = "vertical-fins",
 ) -> _NaturalState:
-    """Heat leaving a vertical plate-fin sink at a given base excess temperature [W].
+    """Heat leaving a plate-fin sink in still air at a given base excess temperature [W].
 
-    Convection: Bar-Cohen & Rohsenow channel coefficient on the channel faces and the base
-    between fins, Churchill & Chu on the outer faces of the two end fins, fin efficiency of the
-    adiabatic-tip fin with corrected length. Radiation: envelope method at the mean surface
-    temperature T_in + eta_o (T_b - T_in) (docs/methods.md g2, g3).
+    Convection, ``"vertical-fins"``: Bar-Cohen & Rohsenow channel coefficient on the channel
+    faces and the base between fins, Churchill & Chu on the outer faces of the two end fins.
+    ``"horizontal-base-fins-up"``: the Jones & Smith array coefficient on every surface. Fin
+    efficiency of the adiabatic-tip fin with corrected length. Radiation: envelope method at the
+    mean surface temperature T_in + eta_o (T_b - T_in) (docs/methods.md g2, g3, g5).
     """
     t_in = np.asarray(air.inlet_temperature, float)
     t_sur = t_in if air.surroundings_temperature is None else air.surroundings_temperature
@@ -68,27 +75,53 @@ def _natural_heat_rate(
     film = air_properties(t_in + 0.5 * base_excess, air.pressure)
     passage = _passage_thickness(geometry.fin_thickness, options)
     spacing = geometry.fin_spacing - (passage - geometry.fin_thickness)
-    nat = natural.plate_fin_array_natural(
-        spacing,
-        geometry.fin_height,
-        geometry.base_length,
-        geometry.fin_thickness,
-        geometry.fin_count,
-        geometry.base_width,
-        surface,
-        t_in,
-        film.density,
-        film.dynamic_viscosity,
-        film.thermal_conductivity,
-        film.prandtl,
-    )
-    channel_h = nat.heat_transfer_coefficient
-    if options.natural_channel_method == "elenbaas":
-        channel_h = (
-            natural.nusselt_vertical_channel_elenbaas(nat.elenbaas)
-            * film.thermal_conductivity
-            / spacing
+    if orientation == "horizontal-base-fins-up":
+        up = natural.horizontal_fin_array_natural(
+            spacing,
+            surface,
+            t_in,
+            film.density,
+            film.dynamic_viscosity,
+            film.thermal_conductivity,
+            film.prandtl,
         )
+        nan = np.full(np.shape(up.rayleigh_spacing), np.nan)
+        nat = natural.PlateFinArrayNatural(
+            rayleigh_spacing=up.rayleigh_spacing,
+            elenbaas=nan,
+            nusselt_spacing=up.nusselt_spacing,
+            heat_transfer_coefficient=up.heat_transfer_coefficient,
+            rayleigh_length=nan,
+            nusselt_length=nan,
+            # one array coefficient: the end fins' outer faces get the same h
+            outer_face_heat_transfer_coefficient=up.heat_transfer_coefficient,
+            optimum_spacing=nan,
+            channel_area=nan,
+            outer_face_area=nan,
+        )
+        channel_h = nat.heat_transfer_coefficient
+    else:
+        nat = natural.plate_fin_array_natural(
+            spacing,
+            geometry.fin_height,
+            geometry.base_length,
+            geometry.fin_thickness,
+            geometry.fin_count,
+            geometry.base_width,
+            surface,
+            t_in,
+            film.density,
+            film.dynamic_viscosity,
+            film.thermal_conductivity,
+            film.prandtl,
+        )
+        channel_h = nat.heat_transfer_coefficient
+        if options.natural_channel_method == "elenbaas":
+            channel_h = (
+                natural.nusselt_vertical_channel_elenbaas(nat.elenbaas)
+                * film.thermal_conductivity
+                / spacing
+            )
     h = options.effective_heat_transfer_coefficient(channel_h)
     t, H, L, N = (
         geometry.fin_thickness,
@@ -165,13 +198,19 @@ def natural_heat_rate(geometry, material, air: Air, base_excess, options: ModelO
     flow : NaturalConvection
         The orientation [-].
     """
-    natural.natural_orientation_check(flow.orientation)
+    orientation = _checked_orientation(geometry, flow)
+    return _natural_heat_rate(geometry, material, air, base_excess, options, orientation)
+
+
+def _checked_orientation(geometry, flow) -> str:
+    """The orientation of ``flow`` when finkit covers it for ``geometry``; else one-line errors."""
+    orientation = natural.natural_orientation_check(flow.orientation)
     if not isinstance(geometry, PlateFinSink):
         raise InputError(
-            "sink.type: natural convection is covered for plate fins only "
-            "(no published pin-fin array method in finkit)"
+            "sink.type: natural convection is covered for plate fins only (no published "
+            "pin-fin array correlation for still air could be confirmed for finkit)"
         )
-    return _natural_heat_rate(geometry, material, air, base_excess, options)
+    return orientation
 
 
 def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperature, upper=400.0):
@@ -197,12 +236,7 @@ def _find_base_excess(residual, shape, inlet_temperature, surroundings_temperatu
 def _solve_natural(geometry, material, source, air, flow, options, *, power=None, limit=None):
     # Long by design: the broadcast shape of every input, the base-excess root (power given or limit
     # given) and the solution's nodes, which share the residual's closures.
-    natural.natural_orientation_check(flow.orientation)
-    if not isinstance(geometry, PlateFinSink):
-        raise InputError(
-            "sink.type: natural convection is covered for plate fins only "
-            "(no published pin-fin array method in finkit)"
-        )
+    orientation = _checked_orientation(geometry, flow)
     t_in = np.asarray(air.inlet_temperature, float)
     t_sur = t_in if air.surroundings_temperature is None else air.surroundings_temperature
 
@@ -241,7 +275,10 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
         target = np.broadcast_to(np.asarray(power, float), shape)
 
         def residual(theta):
-            return _natural_heat_rate(geometry, material, air, theta, options).power - target
+            return (
+                _natural_heat_rate(geometry, material, air, theta, options, orientation).power
+                - target
+            )
 
     else:
         node, t_limit = limit
@@ -249,19 +286,24 @@ def _solve_natural(geometry, material, source, air, flow, options, *, power=None
         def residual(theta):
             # The spreading boundary is the surface's own conductance (always positive);
             # theta / power is not, where radiation from warm surroundings comes in.
-            state = _natural_heat_rate(geometry, material, air, theta, options)
+            state = _natural_heat_rate(geometry, material, air, theta, options, orientation)
             above = rest(1.0 / state.surface_conductance, node)
             return t_in + theta + np.maximum(state.power, 0.0) * above - t_limit
 
     theta = _find_base_excess(residual, shape, t_in, t_sur)
-    state = _natural_heat_rate(geometry, material, air, theta, options)
+    state = _natural_heat_rate(geometry, material, air, theta, options, orientation)
     q = state.power
     with np.errstate(divide="ignore", invalid="ignore"):
         r_sink = np.where(q != 0, theta / q, 1.0 / state.surface_conductance)
     spread = base_spreading(geometry, material, source, 1.0 / state.surface_conductance)
-    warnings = list(
-        natural.plate_fin_natural_warnings(state.elenbaas, rayleigh_length=state.rayleigh_length)
-    )
+    if orientation == "horizontal-base-fins-up":
+        warnings = check_range(natural.JONES_SMITH_RANGE, state.rayleigh)
+    else:
+        warnings = list(
+            natural.plate_fin_natural_warnings(
+                state.elenbaas, rayleigh_length=state.rayleigh_length
+            )
+        )
     warnings += one_dimensional_fin_warnings(
         state.h * geometry.fin_thickness / 2.0 / material.thermal_conductivity
     )
