@@ -297,8 +297,10 @@ def test_end_fin_outer_faces_are_not_wetted():
 @pytest.mark.parametrize("gaps", [(0.001, 0.006), (0.006, 0.001), (0.004, 0.003)])
 def test_side_and_top_gaps_are_separate_branches(gaps):
     # Three parallel branches between the same pressures (docs/methods.md h): the fins, the two side
-    # gaps and the top gap, each gap with its own width in its friction. Solved here
-    # independently with brentq on the common pressure drop.
+    # gaps and the top gap, each gap with its own width in its friction. The fin branch spends
+    # the sink's pressure drop plus its channel velocity head, as in Lee's (1995) balance (the
+    # gaps their one dynamic head). Solved here independently with brentq on the common
+    # pressure drop.
     side, top = gaps
     bypass = Bypass(side_gap=side, top_gap=top)
     total = 20 * CFM
@@ -307,8 +309,11 @@ def test_side_and_top_gaps_are_separate_branches(gaps):
     flow = solve_airflow(PLATE, GivenVolumeFlow(total), AIR, bypass)
     shrouded = top <= 0
 
+    channel = (PLATE.base_width - PLATE.fin_count * PLATE.fin_thickness) * PLATE.fin_height
+
     def sink(q):
-        return float(sink_pressure_drop(PLATE, q, rho, mu, is_shrouded=shrouded))
+        head = 0.5 * rho * (q / channel) ** 2
+        return float(sink_pressure_drop(PLATE, q, rho, mu, is_shrouded=shrouded)) + head
 
     def gap(area, width):
         return lambda q: float(

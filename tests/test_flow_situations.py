@@ -69,17 +69,18 @@ def test_a_gap_too_small_to_carry_air_is_refused_in_one_line(pin_case):
     assert "\n" not in message
 
 
-def test_the_gap_model_says_how_much_more_fin_flow_it_gives_than_lees_balance():
-    # The duct-with-gaps network against Lee's (1995) balance for the same gaps and total flow
-    # (finkit.physics.airflow.sink_flow_free_stream_lee with a finite bypass area): the
-    # warning's figure is their ratio, rounded to 10 %; a stated zero gap gives no warning.
-    import numpy as np
-
+@pytest.mark.identity
+def test_the_gap_model_tends_to_lees_balance_and_to_the_free_stream_as_the_gaps_widen():
+    # The duct-with-gaps network counts the fins' channel velocity head as Lee's (1995) balance
+    # does (finkit.physics.airflow.sink_flow_free_stream_lee with a finite bypass area); the
+    # difference left is the gaps' own friction, which fades as they widen, and with very wide
+    # gaps the sink behaves as in a free stream. At 1 mm the friction pushes more air through
+    # the fins than Lee's frictionless gap would.
     from finkit.physics.airflow import sink_flow_free_stream_lee
     from finkit.physics.geometry import PlateFinSink
     from finkit.physics.properties.air import air_properties
     from finkit.physics.sink.airflow import sink_pressure_drop, solve_airflow
-    from finkit.physics.sink.inputs import Air, Bypass, GivenVelocity
+    from finkit.physics.sink.inputs import Air, Bypass, FreeStream, GivenVelocity
 
     sink = PlateFinSink(
         base_width=0.04,
@@ -90,23 +91,30 @@ def test_the_gap_model_says_how_much_more_fin_flow_it_gives_than_lees_balance():
         fin_height=0.015,
     )
     air = Air(inlet_temperature=318.15)
-    gap = 0.005
-    flow = solve_airflow(sink, GivenVelocity(2.5), air, Bypass(side_gap=gap, top_gap=gap))
     props = air_properties(318.15, 101325.0)
-    lee = sink_flow_free_stream_lee(
-        2.5,
-        0.04 * 0.015,
-        (0.04 - 9 * 0.001) * 0.015,
-        lambda q: sink_pressure_drop(
+
+    def dp(q):
+        return sink_pressure_drop(
             sink, q, props.density, props.dynamic_viscosity, is_shrouded=False
-        ),
-        props.density,
-        bypass_area=2 * gap * 0.015 + gap * (0.04 + 2 * gap),
-    )
-    ratio = float(flow.sink_volume_flow / lee.sink_volume_flow)
-    assert ratio > 1.1
-    (text,) = [w for w in flow.warnings if "duct-with-gaps" in w]
-    assert f"about {10 * round(10 * (ratio - 1)):.0f} % more air" in text
-    closed = solve_airflow(sink, GivenVelocity(2.5), air, Bypass(side_gap=0.0, top_gap=0.0))
-    assert not any("duct-with-gaps" in w for w in closed.warnings)
-    assert np.isfinite(ratio)
+        )
+
+    ratios = []
+    for gap in (0.001, 0.05, 0.2, 0.5):
+        network = solve_airflow(sink, GivenVelocity(2.5), air, Bypass(side_gap=gap, top_gap=gap))
+        lee = sink_flow_free_stream_lee(
+            2.5,
+            0.04 * 0.015,
+            (0.04 - 9 * 0.001) * 0.015,
+            dp,
+            props.density,
+            bypass_area=2 * gap * 0.015 + gap * (0.04 + 2 * gap),
+        )
+        ratios.append(float(network.sink_volume_flow / lee.sink_volume_flow))
+    assert ratios[0] > 1.05
+    assert ratios[1] == pytest.approx(1.0, abs=0.05)
+    assert ratios[2] == pytest.approx(1.0, abs=0.015)
+    assert ratios[3] == pytest.approx(1.0, abs=0.006)
+    assert ratios == sorted(ratios, reverse=True)
+    free = solve_airflow(sink, GivenVelocity(2.5), air, FreeStream())
+    wide = solve_airflow(sink, GivenVelocity(2.5), air, Bypass(side_gap=0.5, top_gap=0.5))
+    assert float(wide.sink_volume_flow) == pytest.approx(float(free.sink_volume_flow), rel=0.01)

@@ -23,7 +23,7 @@ from finkit.report import transient as rt
 DEMO = Path(__file__).resolve().parents[1] / "demo_cases" / "nb200-plate-fan.yaml"
 
 
-def case_dict(limit="98 degC", **block):
+def case_dict(limit="99 degC", **block):
     data = yaml.safe_load(DEMO.read_text(encoding="utf-8"))
     for key in ("tolerances", "monte_carlo", "measurements", "calibration"):
         data.pop(key, None)
@@ -72,7 +72,7 @@ def test_history_plot_marks_limit_event_and_units(result):
     ax = fig.axes[0]
     assert ax.get_ylabel() == "Temperature [°C]" and ax.get_xlabel() == "Time [s]"
     labels = [line.get_label() for line in ax.get_lines()]
-    assert any(label.startswith("Limit 98.0") for label in labels)
+    assert any(label.startswith("Limit 99.0") for label in labels)
     assert "Event: hot-day-one-fan" in labels
     assert any(label.startswith("Limit reached") for label in labels)
 

@@ -165,8 +165,9 @@ def test_channel_velocity_tends_to_the_approach_velocity_as_the_pressure_drop_va
 
 
 def test_free_stream_is_more_conservative_than_very_wide_duct_gaps(plate):
-    # finkit's duct-with-gaps model omits the fin stream's exit head; with gaps far wider than
-    # the sink it still sends more air through the fins than the free-stream balance.
+    # With gaps far wider than the sink the duct-with-gaps network (the fin branch with its
+    # channel head, as Lee's balance) tends to the free stream from above: the gaps' friction
+    # still holds back a little bypass air.
     from finkit.physics.sink.inputs import Bypass
 
     air = Air(inlet_temperature=318.15)

@@ -167,8 +167,8 @@ def sink_flow_free_stream_lee(
       is that of the narrowest section. Read strictly, a Kays & London exit coefficient ``K_e``
       already carries the stream from ``V_ch`` down to ``sigma V_ch`` over the frontal area,
       which would leave only ``sigma² rho V_ch²/2``; Lee's full head is the larger loss. (The
-      duct-with-gaps model of :func:`split_bypass` balances the static pressure drops without
-      this head, so at very wide gaps it sends more air through the fins than this model.)
+      duct-with-gaps network of :mod:`finkit.physics.sink.airflow` counts the same head on its
+      fin branch, so as its gaps widen it tends to this model.)
     * No air leaks out of the open top or sides of the fins along the flow (a 1-D balance
       cannot see it); leakage lowers the flow over the downstream part of the fins, so a long
       sink (length well above its fin height) is optimistic in this respect.
