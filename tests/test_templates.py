@@ -327,3 +327,29 @@ def test_template_default_case_is_its_demo_case(template):
     demo = ROOT / notes.TEMPLATE_DEFAULTS[template]
     expected = yaml.safe_load(demo.read_text(encoding="utf-8"))
     assert notes.template_default_case(ROOT / "templates" / template) == expected
+
+
+@pytest.mark.crosscheck
+def test_parameter_names_are_what_papermill_reads_from_every_template():
+    # finkit reads a template's parameters cell with ast (no papermill import when checking a
+    # template); papermill's own inspect_notebook is the reference.
+    import glob
+
+    import nbformat
+    import papermill
+
+    from finkit.notes.setup import parameter_names
+
+    root = Path(__file__).resolve().parents[1]
+    paths = sorted(glob.glob(str(root / "finkit" / "templates" / "*.ipynb")))
+    paths += sorted(glob.glob(str(root / "tests" / "notebooks" / "*.ipynb")))
+    checked = 0
+    for path in paths:
+        nb = nbformat.read(path, as_version=4)
+        cells = [c for c in nb.cells if "parameters" in c.get("metadata", {}).get("tags", [])]
+        if len(cells) != 1:
+            continue
+        assert parameter_names(cells[0].source) == set(papermill.inspect_notebook(path)), path
+        checked += 1
+    assert checked >= 4
+    assert parameter_names("a, (b) = 1, 2\nc: int = 3\nd += 1\nif x:\n    e = 4") == {"a", "b", "c"}

@@ -24,6 +24,7 @@ __all__ = [
     "check_template",
     "ensure_kernel",
     "json_safe",
+    "parameter_names",
     "prepare_case",
     "template_path",
 ]
@@ -169,7 +170,6 @@ def check_template(path: Path) -> set[str]:
         Notebook template. [-]
     """
     import nbformat
-    import papermill
 
     nb = nbformat.read(path, as_version=4)
     tagged = [c for c in nb.cells if "parameters" in c.get("metadata", {}).get("tags", [])]
@@ -177,13 +177,47 @@ def check_template(path: Path) -> set[str]:
         raise InputError(
             f"template {path.name}: {len(tagged)} cells tagged 'parameters'; exactly one is needed"
         )
-    names = set(papermill.inspect_notebook(str(path)))
+    names = parameter_names(tagged[0].source, path.name)
     missing = {"case", "note_time"} - names
     if missing:
         raise InputError(
             f"template {path.name}: the parameters cell does not define "
             f"{', '.join(sorted(missing))}"
         )
+    return names
+
+
+def parameter_names(source: str, template: str = "template") -> set[str]:
+    """The names a parameters cell binds at its top level (``x = ...``, ``x: T = ...``).
+
+    What papermill's ``inspect_notebook`` reports for a Python parameters cell (tested against
+    it on finkit's templates), read with :mod:`ast` so that checking a template does not import
+    papermill (0.15 s of every ``finkit note`` and of an unchanged batch re-run).
+
+    Parameters
+    ----------
+    source : str
+        The cell's code. [-]
+    template : str, optional
+        The template's name, for the error message. [-]
+    """
+    import ast
+
+    try:
+        tree = ast.parse(source)
+    except SyntaxError as exc:
+        raise InputError(
+            f"template {template}: the parameters cell is not valid Python ({exc.msg}, line "
+            f"{exc.lineno})"
+        ) from None
+    names: set[str] = set()
+    for node in tree.body:
+        targets = node.targets if isinstance(node, ast.Assign) else []
+        if isinstance(node, ast.AnnAssign):
+            targets = [node.target]
+        for target in targets:
+            elts = target.elts if isinstance(target, ast.Tuple | ast.List) else [target]
+            names.update(e.id for e in elts if isinstance(e, ast.Name))
     return names
 
 
