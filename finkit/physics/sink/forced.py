@@ -573,8 +573,8 @@ def _solve_forced(
     if credit is None:
         return sol
     # Part of the heat leaves by free convection and radiation, not into the forced stream:
-    # the mixed-mean outlet from all of it over m_dot c_p is an upper bound, and the air can
-    # leave no hotter than the base (conservative).
+    # the mixed-mean outlet from all of it over m_dot c_p is an upper bound (kept), capped at
+    # the base temperature, which the air cannot exceed.
     return replace(
         sol, outlet_air_temperature=np.minimum(sol.outlet_air_temperature, sol.base_temperature)
     )
