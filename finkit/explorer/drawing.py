@@ -195,7 +195,7 @@ class _Drawing:
             system["volume_flow"] * to_cfm,
             system["pressure_drop"] * to_p,
             color=colours["primary"],
-            label="System (sink" + (" + bypass)" if result.inputs.bypass is not None else ")"),
+            label=_system_label(result.inputs.bypass),
         )
         if "fan" in curves:
             fan = curves["fan"]
@@ -222,7 +222,11 @@ class _Drawing:
         ax.autoscale_view()
         ax.set_xlim(0, curves["q_max"] * to_cfm)
         ax.set_ylim(bottom=0)
-        ax.set_xlabel("Total volume flow [CFM]")
+        ax.set_xlabel(
+            "Stream flow over the sink's frontal area [CFM]"
+            if _is_free_stream(result.inputs.bypass)
+            else "Total volume flow [CFM]"
+        )
         ax.set_ylabel(f"Static pressure [{p_sym}]")
         title = "Fan and system curves" if "fan" in curves else "System curve, given flow"
         if result.inputs.bypass is not None:
@@ -345,3 +349,19 @@ class _Drawing:
             f'{head}<table style="border-collapse:collapse;font-size:90%">{body}</table>'
             f'<div style="font-size:85%;color:#707070;max-width:420px">{note}</div>'
         )
+
+
+def _is_free_stream(bypass) -> bool:
+    from finkit.physics.sink.inputs import FreeStream
+
+    return isinstance(bypass, FreeStream)
+
+
+def _system_label(bypass) -> str:
+    """Legend of the system curve: the sink, with its bypass gaps or standing in a free stream
+    (where the curve is the fins' pressure drop against the stream's flow at the sink)."""
+    if bypass is None:
+        return "System (sink)"
+    if _is_free_stream(bypass):
+        return "Sink in a free stream (Lee's balance)"
+    return "System (sink + bypass)"
