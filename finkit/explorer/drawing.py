@@ -74,7 +74,7 @@ class _Drawing:
             rows = [
                 ("Junction", sol.junction_temperature, node == "junction"),
                 ("Case", sol.case_temperature, node == "case"),
-                ("Base under source, centre", sol.source_base_centre_temperature, node == "base"),
+                ("Base peak", sol.source_base_centre_temperature, node == "base"),
             ]
         rows += [
             ("Base, mean", sol.base_temperature, False),
