@@ -242,3 +242,16 @@ def test_a_trade_study_accepts_the_credit(demo_case_file):
     raw["tolerances"] = {k: v for k, v in raw.get("tolerances", {}).items() if k != "fan_pressure"}
     note = run_trade_study(load_case(raw))
     assert note.optimum is not None or note.front is not None
+
+
+def test_free_convection_on_a_pin_fin_sink_is_refused_in_one_line(demo_case_file):
+    raw = yaml.safe_load(demo_case_file("nb300-pin-ducted").read_text(encoding="utf-8"))
+    raw["air"]["flow"]["free_convection"] = {
+        "orientation": "vertical-fins",
+        "forced_flow": "upward",
+    }
+    with pytest.raises(InputError) as err:
+        load_case(raw)
+    text = str(err.value)
+    assert "air.flow.free_convection: needs a natural-convection model" in text
+    assert "pin-fin" in text and "\n" not in text.strip()

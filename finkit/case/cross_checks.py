@@ -186,11 +186,14 @@ def _cross_checks_heat_sink(raw) -> list[str]:
         )
     if is_natural and _get(raw, "air", "bypass") is not None:
         out.append("air.bypass: applies to forced flow only (air.flow is natural); remove it")
-    if (
-        isinstance(flow, dict)
-        and flow.get("free_convection") is not None
-        and _get(raw, "sink", "heat_transfer_coefficient_override") is not None
-    ):
+    credits_free = isinstance(flow, dict) and flow.get("free_convection") is not None
+    if credits_free and sink_type == "pin-fin":
+        out.append(
+            "air.flow.free_convection: needs a natural-convection model of the sink, and finkit "
+            "has none for sink.type 'pin-fin' (no published pin-fin array correlation for still "
+            "air could be confirmed); remove it (no credit is then taken)"
+        )
+    if credits_free and _get(raw, "sink", "heat_transfer_coefficient_override") is not None:
         out.append(
             "air.flow.free_convection: cannot be combined with "
             "sink.heat_transfer_coefficient_override (a hand-given h already stands for all the "
