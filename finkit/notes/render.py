@@ -7,7 +7,6 @@ import importlib
 import json
 import os
 import shutil
-import signal
 import sys
 import tempfile
 import threading
@@ -33,6 +32,7 @@ from finkit.notes.files import (
     atomic_write,
     case_folder,
 )
+from finkit.notes.forks import ComparisonPrefetch, SectionHelper
 from finkit.notes.html import (
     check_note_html,
     check_paper,
@@ -90,79 +90,14 @@ _WARM_IMPORTS = (
 )
 
 
-def _fork_is_safe() -> bool:
-    """A fork copies only the calling thread: safe only while this process runs no other."""
-    return hasattr(os, "fork") and threading.active_count() == 1
-
-
-class _ComparisonPrefetch:
-    """Solve the cases of the comparison with the previous revision in a forked process.
-
-    Comparing a case with its previous revision solves that revision and the cases its
-    attribution tries (:func:`finkit.report.compare.prefetch`), none of which needs the current
-    case's
-    results; a child forked before the kernel starts solves them while the parent solves the
-    case, on the second core, and hands the solutions back through a file in the scratch
-    folder (issue 15). Nothing but the content-keyed solution caches comes back; anything that
-    goes wrong leaves the parent to solve them itself, as before.
-    """
-
-    def __init__(self, validated: Any, scratch: Path):
-        self.pid = None
-        self.path = scratch / "prefetch.pickle"
-        previous = getattr(validated, "previous_revision", None)
-        if previous is None or not _fork_is_safe():
-            return
-        entered = getattr(validated, "entered", None)
-        pid = os.fork()
-        if pid == 0:  # the child: solve, write, leave without running any exit handler
-            status = 1
-            try:
-                import pickle
-
-                from finkit.report import compare
-
-                compare.prefetch(previous.source, entered)
-                atomic_write(self.path, pickle.dumps(compare.cached_solutions()))
-                status = 0
-            except BaseException:  # noqa: BLE001 - the parent solves them itself
-                pass
-            finally:
-                os._exit(status)
-        self.pid = pid
-
-    def collect(self, timeout: float) -> None:
-        """Wait for the child (at most ``timeout``) and take its solutions into the caches."""
-        if self.pid is None:
-            return
-        deadline = time.monotonic() + timeout
-        while time.monotonic() < deadline:
-            done, _ = os.waitpid(self.pid, os.WNOHANG)
-            if done:
-                self.pid = None
-                break
-            time.sleep(0.01)
-        self.stop()
-        try:
-            import pickle
-
-            from finkit.report import compare
-
-            with open(self.path, "rb") as handle:
-                compare.add_cached_solutions(pickle.load(handle))
-        except Exception:  # noqa: BLE001 - missing or damaged: solved in the parent
-            pass
-
-    def stop(self) -> None:
-        """End the child if it still runs (a failed note, or one past its time)."""
-        if self.pid is None:
-            return
-        try:
-            os.kill(self.pid, signal.SIGKILL)
-            os.waitpid(self.pid, 0)
-        except OSError:
-            pass
-        self.pid = None
+def _code_cells(template: Path) -> list[str]:
+    """The source of each code cell of a notebook template, in order."""
+    cells = json.loads(template.read_text(encoding="utf-8")).get("cells", [])
+    return [
+        "".join(c["source"]) if isinstance(c["source"], list) else str(c["source"])
+        for c in cells
+        if c.get("cell_type") == "code"
+    ]
 
 
 def _warm_html_exporter(show_code: bool) -> threading.Thread:
@@ -209,7 +144,8 @@ class _EarlyKernel:
         try:
             run_sync(self.manager.start_kernel)(cwd=str(cwd))
             self._client = self.manager.client()
-            self._client.start_channels()
+            # No heartbeat thread: the parent stays single-threaded, so it may fork a helper.
+            self._client.start_channels(hb=False)
             self._warm_id = self._client.execute(_WARM_IMPORTS, silent=True, store_history=False)
         except Exception as exc:  # noqa: BLE001 - reported as the note's failure, one line
             self.stop()
@@ -324,6 +260,7 @@ def render_note(
     results: Callable[[Any], Mapping[str, Any]] | None = None,
     kernel_manager: Any = None,
     stages: dict[str, float] | None = None,
+    draw_ahead: bool = True,
 ) -> NoteOutput:
     """Execute the note template for a case and write a dated, self-contained HTML note.
 
@@ -369,6 +306,10 @@ def render_note(
     stages : dict, optional
         Filled with the seconds each stage took (:data:`NOTE_STAGES`), for benchmarks and the
         batch's timing table. [s]
+    draw_ahead : bool, optional
+        With its own kernel and the solved case handed over, fork a helper that draws the
+        note's sections from the end while the kernel draws them from the start
+        (:class:`finkit.notes.forks.SectionHelper`); the note is the same either way. [-]
 
     Returns
     -------
@@ -414,6 +355,7 @@ def render_note(
     )
     own_kernel = None
     prefetch = None
+    helper = None
     clock.mark("check case and template")
     try:
         if kernel_manager is None:
@@ -422,7 +364,7 @@ def render_note(
                     # Imported once, before the fork, rather than in both processes.
                     for name in ("finkit.model", "finkit.model.review", "finkit.report.compare"):
                         importlib.import_module(name)
-                prefetch = _ComparisonPrefetch(prepared.validated, scratch)
+                prefetch = ComparisonPrefetch(prepared.validated, scratch)
             # Started before the solve, so the kernel boots while the case is solved.
             own_kernel = _EarlyKernel(kernel, scratch, prepared.case_id)
         clock.mark("start kernel")
@@ -442,10 +384,15 @@ def render_note(
                         prefetch.collect(timeout)
 
                     extra["comparison"] = changes_since(solved)
+                share = own_kernel is not None and draw_ahead  # a core is free meanwhile
+                if share:
+                    extra["sections_folder"] = str(scratch / "sections")
                 handover.write_solved(
                     scratch / handover.SOLVED_PICKLE, prepared.validated, solved, **extra
                 )
                 parameters["solved"] = str(scratch / handover.SOLVED_PICKLE)
+                if share:
+                    helper = SectionHelper(solved, scratch / "sections", _code_cells(template_file))
                 clock.mark("compare with the previous revision")
         else:
             result_dict = dict(results(prepared.validated))
@@ -492,6 +439,10 @@ def render_note(
             message = _execution_failure(exc, executed_path, prepared, prov, folder, timeout)
             raise NoteExecutionError(message) from exc
         clock.mark("run the cells")
+        if helper is not None:
+            helper.stop(wait=1.0)
+            if stages is not None:
+                stages["(sections drawn ahead)"] = float(helper.drawn())
         if own_kernel is not None:
             own_kernel.stop()
             own_kernel = None
@@ -522,6 +473,8 @@ def render_note(
     finally:
         if prefetch is not None:
             prefetch.stop()
+        if helper is not None:
+            helper.stop()
         if own_kernel is not None:
             own_kernel.stop()
         shutil.rmtree(scratch, ignore_errors=True)

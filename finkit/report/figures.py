@@ -13,6 +13,7 @@ import numpy as np
 
 from finkit.case.units import from_si
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.formatting import (
     _FIGSIZE,
     _FIGSIZE_TALL,
@@ -731,6 +732,7 @@ def figure_sweep(result, name: str) -> present.Fragment:
     )
 
 
+@shareable
 def plot_figures(result) -> present.Fragment:
     """Every standard figure of a heat-sink note, with headings, at the governing condition.
 

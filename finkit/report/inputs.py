@@ -78,6 +78,10 @@ def run(case: Any, solved: str | None = None):
             result = handed["result"]
             if "comparison" in handed:
                 _remember_comparison(result, handed["comparison"])
+            if "sections_folder" in handed:
+                from finkit.report.ahead import remember_folder
+
+                remember_folder(result, handed["sections_folder"])
             return result
     from finkit.model.run import run_case
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 from typing import Any
 
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.flow_situations import (
     free_convection_credit,
     free_convection_method,
@@ -179,6 +180,7 @@ def references(result) -> present.Fragment:
     )
 
 
+@shareable
 def method_section(result) -> present.Fragment:
     """How the numbers were obtained: the thermal chain and each correlation used, cited.
 

@@ -13,6 +13,7 @@ import numpy as np
 
 from finkit.case.units import from_si
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.formatting import (
     _FIGSIZE_WIDE,
     _H,
@@ -218,6 +219,7 @@ def plot_fin_tip_profiles(result):
     return fig
 
 
+@shareable
 def figure_fin_tip_profiles(result) -> present.Fragment:
     """:func:`plot_fin_tip_profiles` embedded with its caption (a remark if not available).
 
@@ -327,6 +329,7 @@ def plot_fin_efficiency_vs_length(result):
     return fig
 
 
+@shareable
 def figure_fin_efficiency_vs_length(result) -> present.Fragment:
     """:func:`plot_fin_efficiency_vs_length` embedded with its caption.
 
@@ -410,6 +413,7 @@ def plot_fin_profiles_study(result):
     return fig
 
 
+@shareable
 def figure_fin_profiles_study(result) -> present.Fragment:
     """:func:`plot_fin_profiles_study` embedded with its caption.
 
@@ -433,6 +437,7 @@ def figure_fin_profiles_study(result) -> present.Fragment:
     )
 
 
+@shareable
 def fin_method_section(result) -> present.Fragment:
     """Method of a single-fin study: Incropera et al. Table 3.4 / 3.5 forms.
 

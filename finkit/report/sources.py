@@ -11,6 +11,7 @@ import numpy as np
 
 from finkit.constants import ZERO_CELSIUS
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.formatting import (
     _FIGSIZE_TALL,
     _NODE_NAMES,
@@ -102,6 +103,7 @@ def source_rows_table(result, *, compact: bool = False) -> present.Fragment:
     return present.html_table(body, header=header, css_class="fk-sources")
 
 
+@shareable
 def sources_section(result) -> present.Fragment:
     """The per-source table with how it was computed (nothing for a single-source case).
 

@@ -13,6 +13,7 @@ import numpy as np
 
 from finkit.case.units import from_si
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.formatting import (
     _FIGSIZE,
     _H,
@@ -401,6 +402,7 @@ def plot_uncertainty_distribution(result):
     return fig
 
 
+@shareable
 def figure_uncertainty_distribution(result) -> present.Fragment:
     """:func:`plot_uncertainty_distribution` with its caption; empty without tolerances.
 
@@ -504,6 +506,7 @@ def plot_tornado(result):
     return fig
 
 
+@shareable
 def figure_tornado(result) -> present.Fragment:
     """:func:`plot_tornado` with its caption; empty without tolerances (or none of width).
 
@@ -646,6 +649,7 @@ def _mesh_statement(check) -> str:
     )
 
 
+@shareable
 def model_form_section(result) -> present.Fragment:
     """Model-form check: is the simple 1-D chain good enough for this sink?
 

@@ -13,6 +13,7 @@ import numpy as np
 from finkit.case.units import from_si
 from finkit.constants import ZERO_CELSIUS
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.formatting import (
     _NBSP,
     _T,
@@ -554,6 +555,7 @@ def plot_calibration(result):
     return fig
 
 
+@shareable
 def figure_calibration(result) -> present.Fragment:
     """:func:`plot_calibration` embedded with its caption (empty without measurements).
 

@@ -15,6 +15,7 @@ import numpy as np
 
 from finkit.constants import ZERO_CELSIUS
 from finkit.report import present
+from finkit.report.ahead import shareable
 from finkit.report.formatting import (
     _FIGSIZE,
     COLOURS,
@@ -401,6 +402,7 @@ def transient_cautions(result) -> present.Fragment:
     return _bullets(items)
 
 
+@shareable
 def transient_section(result) -> present.Fragment:
     """The note's transient section: event, time to the limit, history, impedance, ladders.
 
