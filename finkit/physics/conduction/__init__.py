@@ -45,7 +45,8 @@ Because the source is centred and the fin layout is symmetric about both mid-pla
 quarter (``0 ≤ x ≤ W/2``, ``0 ≤ y ≤ L/2``) is solved, with adiabatic symmetry planes; the returned
 field is mirrored to the whole sink. The matrix (symmetric positive definite) is assembled in
 COO form with numpy (no loop over cells) and converted to CSR. ``solver="direct"`` uses
-``scipy.sparse.linalg.spsolve`` (SuperLU, minimum-degree ordering on ``A + A^T``);
+SuperLU (``scipy.sparse.linalg.splu``) in its symmetric mode: minimum-degree ordering on
+``A + A^T`` and diagonal pivots, which the symmetric positive definite matrix allows;
 ``solver="cg"`` uses conjugate gradients with a diagonal (Jacobi) preconditioner to a relative
 residual of 1e-10; ``solver="auto"`` (default) takes the direct solver up to
 ``DIRECT_SOLVER_MAX_CELLS`` unknowns and CG above. On a 2-core machine the direct solver takes
