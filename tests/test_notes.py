@@ -495,6 +495,23 @@ def test_timeout_is_reported_with_the_cell(tmp_path):
 
 
 @pytest.mark.slow
+def test_the_executed_notebook_is_written_once_at_the_end_not_per_cell(tmp_path, monkeypatch):
+    """papermill writes the notebook at the start and end of every cell; finkit's engine only
+    in papermill's final sync (failures keep their partial notebook, see the timeout test)."""
+    import papermill.engines
+    import papermill.execute
+
+    writes = []
+    for module in (papermill.engines, papermill.execute):
+        real = module.write_ipynb
+        monkeypatch.setattr(
+            module, "write_ipynb", lambda nb, path, real=real: (writes.append(path), real(nb, path))
+        )
+    render(fixture_case(), tmp_path)
+    assert 1 <= len(writes) <= 2  # the engine's final sync, papermill's own last write
+
+
+@pytest.mark.slow
 def test_dead_kernel_is_reported(tmp_path):
     with pytest.raises(
         notes.NoteExecutionError,

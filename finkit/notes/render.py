@@ -17,6 +17,7 @@ from typing import Any
 
 from finkit.errors import InputError
 from finkit.model import handover
+from finkit.notes.engine import register_engine
 from finkit.notes.files import (
     _PACKAGE_DIR,
     _TEMPLATE_DIR,
@@ -434,6 +435,7 @@ def render_note(
                 log_output=False,
                 cwd=str(scratch),
                 km=kernel_manager,
+                engine_name=register_engine(),
             )
         except Exception as exc:  # noqa: BLE001 - every failure is reported the same way
             message = _execution_failure(exc, executed_path, prepared, prov, folder, timeout)
