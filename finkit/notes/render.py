@@ -123,16 +123,18 @@ def _warm_html_exporter(show_code: bool) -> threading.Thread:
 
 
 class _EarlyKernel:
-    """A note's own kernel, started before the case is solved.
+    """A note's own kernel, started before the case is checked and solved.
 
     A fresh kernel process per note, as papermill would start it, only earlier: it boots and
     imports the modules the note's first cells need (:data:`_WARM_IMPORTS`, a silent request
-    that leaves nothing in the notebook's namespace or history) while the parent solves the
-    case; on two cores that hides the kernel's start-up (issue 15). No state reaches the note
-    that the template's cells did not make: the imports are the ones the cells do.
+    that leaves nothing in the notebook's namespace or history) while the parent checks and
+    solves the case; on two cores that hides the kernel's start-up (issue 15). No state reaches
+    the note that the template's cells did not make: the imports are the ones the cells do.
+    It runs in an empty folder of its own (the note's scratch folder is made only once the
+    case is known to be good), removed when it stops; the cells use absolute paths only.
     """
 
-    def __init__(self, kernel: str, cwd: Path, case_id: str):
+    def __init__(self, kernel: str, case_id: str):
         # The asynchronous manager papermill's client makes for itself: with a blocking one,
         # nbclient's per-cell time limit is never applied.
         from jupyter_client.manager import AsyncKernelManager
@@ -142,8 +144,9 @@ class _EarlyKernel:
         self.manager = AsyncKernelManager(kernel_name=kernel)
         self._client = None
         self._warm_id = None
+        self.cwd = tempfile.mkdtemp(prefix="finkit-kernel-")
         try:
-            run_sync(self.manager.start_kernel)(cwd=str(cwd))
+            run_sync(self.manager.start_kernel)(cwd=self.cwd)
             self._client = self.manager.client()
             # No heartbeat thread: the parent stays single-threaded, so it may fork a helper.
             self._client.start_channels(hb=False)
@@ -184,6 +187,14 @@ class _EarlyKernel:
                 self._run_sync(self.manager.shutdown_kernel)(now=True)
         except Exception:  # noqa: BLE001 - an already dead kernel is what we wanted
             pass
+        shutil.rmtree(self.cwd, ignore_errors=True)
+
+
+def _case_label(case: Any) -> str:
+    """What a note's case is called before it is checked: its case id or file name."""
+    if isinstance(case, Mapping):
+        return str(case.get("case_id", "?"))
+    return Path(case).stem if isinstance(case, str | os.PathLike) else "?"
 
 
 def _one_line(text: str, limit: int = 160) -> str:
@@ -336,25 +347,30 @@ def render_note(
     # Long by design: the note's stages in order, each timed by the stage clock and guarded so that
     # nothing half-written is left.
     clock = _StageClock(stages)
-    prepared = prepare_case(case, validate=validate)
-    folder = case_folder(out_dir, prepared.case_id)
-    template_file = template_path(prepared.kind, template)
-    template_parameters = check_template(template_file)
-    note_time = parse_note_time(execution_time)
-    check_paper(paper)
-    if not (isinstance(timeout, int | float) and timeout > 0):
-        raise InputError(f"timeout={timeout!r} s is not allowed; use a positive number of seconds")
-
-    if kernel_manager is not None:
-        kernel = kernel_name or KERNEL_NAME
-    else:
-        kernel = kernel_name or ensure_kernel()
-
-    folder.parent.mkdir(parents=True, exist_ok=True)
-    scratch = Path(
-        tempfile.mkdtemp(dir=folder.parent, prefix=f".{prepared.case_id}.", suffix=".partial")
-    )
     own_kernel = None
+    if kernel_manager is None:
+        # Started first, so that it boots while the case is checked and solved.
+        own_kernel = _EarlyKernel(kernel_name or ensure_kernel(), _case_label(case))
+    try:
+        prepared = prepare_case(case, validate=validate)
+        folder = case_folder(out_dir, prepared.case_id)
+        template_file = template_path(prepared.kind, template)
+        template_parameters = check_template(template_file)
+        note_time = parse_note_time(execution_time)
+        check_paper(paper)
+        if not (isinstance(timeout, int | float) and timeout > 0):
+            raise InputError(
+                f"timeout={timeout!r} s is not allowed; use a positive number of seconds"
+            )
+        kernel = kernel_name or KERNEL_NAME
+        folder.parent.mkdir(parents=True, exist_ok=True)
+        scratch = Path(
+            tempfile.mkdtemp(dir=folder.parent, prefix=f".{prepared.case_id}.", suffix=".partial")
+        )
+    except BaseException:
+        if own_kernel is not None:
+            own_kernel.stop()
+        raise
     prefetch = None
     helper = None
     clock.mark("check case and template")
@@ -366,8 +382,6 @@ def render_note(
                     for name in ("finkit.model", "finkit.model.review", "finkit.report.compare"):
                         importlib.import_module(name)
                 prefetch = ComparisonPrefetch(prepared.validated, scratch)
-            # Started before the solve, so the kernel boots while the case is solved.
-            own_kernel = _EarlyKernel(kernel, scratch, prepared.case_id)
         clock.mark("start kernel")
         parameters: dict[str, Any] = {"case": prepared.case, "note_time": note_time}
         if results is None:
