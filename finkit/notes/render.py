@@ -16,7 +16,6 @@ from pathlib import Path
 from typing import Any
 
 from finkit.errors import InputError
-from finkit.model import handover
 from finkit.notes.engine import register_engine
 from finkit.notes.files import (
     _PACKAGE_DIR,
@@ -402,6 +401,8 @@ def render_note(
                 share = own_kernel is not None and draw_ahead  # a core is free meanwhile
                 if share:
                     extra["sections_folder"] = str(scratch / "sections")
+                from finkit.model import handover  # here: the kernel starts before it loads
+
                 handover.write_solved(
                     scratch / handover.SOLVED_PICKLE, prepared.validated, solved, **extra
                 )
