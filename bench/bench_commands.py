@@ -154,7 +154,9 @@ def main(argv: list[str]) -> int:
         return 0
     with tempfile.TemporaryDirectory() as tmp:
         out = Path(tmp) / "notes"
-        seconds = _wall([*FINKIT, "note", str(DEMO / "nb200-plate-fan.yaml"), "--out", str(out)])
+        seconds = _wall(
+            [*FINKIT, "note", str(DEMO / "nb200-plate-fan.yaml"), "--out", str(out)], runs=3
+        )
         size = (out / "nb200-plate-fan" / "note.html").stat().st_size
         _row(
             "finkit note nb200-plate-fan",
