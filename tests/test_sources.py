@@ -18,7 +18,7 @@ import yaml
 from finkit.case import CaseError, load_case
 from finkit.constants import ZERO_CELSIUS
 from finkit.model import run_case
-from finkit.model.design import sink_inputs, solve, solve_condition
+from finkit.model.design import airflow_of, allowable, sink_inputs, solve, solve_condition
 
 pytestmark = pytest.mark.identity
 
@@ -199,6 +199,20 @@ def test_allowable_power_scales_every_source_until_the_governing_one_reaches_its
     assert float(at.power) == pytest.approx(state.results["allowable_power"])
     stated = np.array([s.power for s in case.sources])
     assert np.asarray(t.power) == pytest.approx(stated * float(at.power) / stated.sum())
+
+
+@pytest.mark.identity
+def test_the_allowable_power_search_started_from_the_stated_state_is_unchanged(board):
+    # Identity: the search starts from the state at the stated powers; handing over that state,
+    # already solved, in place of solving it again gives the same numbers to the last digit.
+    inputs = sink_inputs(load_case(board))
+    airflow = airflow_of(inputs)
+    stated = solve(inputs, airflow=airflow)
+    for margin in (None, 0.0):
+        fresh = allowable(inputs, margin, airflow=airflow)
+        handed = allowable(inputs, margin, airflow=airflow, stated=stated)
+        assert float(handed.power) == float(fresh.power)
+        np.testing.assert_array_equal(handed.sources.junction, fresh.sources.junction)
 
 
 def test_power_of_one_source_with_the_others_held(board):

@@ -468,11 +468,11 @@ class ScenarioTable:
         raise InputError(f"scenarios: no scenario named {name!r}")
 
 
-def _allowable_power(inputs: SinkInputs, airflow=None) -> float:
+def _allowable_power(inputs: SinkInputs, airflow=None, stated=None) -> float:
     usable = inputs.limit_temperature - inputs.required_margin
     if usable <= float(np.max(inputs.air.inlet_temperature)) + 1e-6:
         return 0.0
-    return float(allowable(inputs, airflow=airflow).power)
+    return float(allowable(inputs, airflow=airflow, stated=stated).power)
 
 
 def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None) -> ScenarioRow:

@@ -177,7 +177,7 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
                 sink_resistance=float(sol.sink_resistance),
                 pressure_drop=float(sol.pressure_drop),
                 volume_flow=float(sol.volume_flow),
-                allowable_power=_allowable_power(variant, airflow),
+                allowable_power=_allowable_power(variant, airflow, stated=sol),
             )
         )
     chosen_row = rows[0]
