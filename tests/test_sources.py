@@ -400,6 +400,29 @@ def test_monte_carlo_with_several_sources_checks_each_against_its_own_limit(boar
     assert payload["probability_exceeding_limit_any_source"]["unit"] == "1"
 
 
+@pytest.mark.identity
+def test_the_studies_take_the_governing_state_instead_of_solving_it_again(board_result):
+    # Identity: the Monte Carlo and the tornado start from solve(inputs) of the governing
+    # condition, which the scenario table has already solved with the same inputs; handing it
+    # over gives the same numbers to the last digit.
+    from finkit.case.explore_blocks import to_tolerances
+    from finkit.model.uncertainty import monte_carlo, sensitivity
+
+    case, result = board_result
+    gov = result.conditions.governing_row
+    again = solve(gov.inputs)
+    for name in ("junction_temperature", "base_temperature", "volume_flow", "sink_resistance"):
+        assert float(getattr(again, name)) == float(getattr(gov.solution, name))
+    np.testing.assert_array_equal(again.sources.junction, gov.solution.sources.junction)
+    tolerances = to_tolerances(case.tolerances)
+    fresh = monte_carlo(gov.inputs, tolerances, 500, 4)
+    handed = monte_carlo(gov.inputs, tolerances, 500, 4, nominal=gov.solution)
+    assert handed.summary() == fresh.summary()
+    np.testing.assert_array_equal(handed.junction_temperature, fresh.junction_temperature)
+    bars = sensitivity(gov.inputs, tolerances, nominal=gov.solution)
+    assert bars == sensitivity(gov.inputs, tolerances)
+
+
 def test_one_source_tolerances_are_refused_with_several_sources(board):
     case = copy.deepcopy(board)
     case["tolerances"] = {

@@ -189,11 +189,13 @@ def _uncertainty(case, governing) -> UncertaintyResult | None:
     settings = case.monte_carlo or MonteCarloBlock()
     tolerances = to_tolerances(case.tolerances)
     inputs = governing.inputs
+    # The governing row's state at the stated power is solve(inputs): not solved again.
+    nominal = governing.solution
     return UncertaintyResult(
         monte_carlo=monte_carlo(
-            inputs, tolerances, settings.samples, settings.seed, settings.sampling
+            inputs, tolerances, settings.samples, settings.seed, settings.sampling, nominal=nominal
         ),
-        tornado=sensitivity(inputs, tolerances, settings.tornado_coverage),
+        tornado=sensitivity(inputs, tolerances, settings.tornado_coverage, nominal=nominal),
         condition=governing.name,
     )
 
