@@ -236,7 +236,12 @@ def _review(case, inputs: SinkInputs, governing_inputs, table, calibration) -> R
         scenarios=table,
         touch=touch,
         calibration=calibration,
-        spread=correlation_spread(governing_inputs),
+        # The governing row has solved the chosen correlations already: not solved again.
+        spread=correlation_spread(
+            governing_inputs,
+            stated=table.governing_row.solution,
+            at_margin=table.governing_row.allowable,
+        ),
         flags=tuple(sanity_flags(case, inputs)),
         calibrated_governing=other,
     )
