@@ -574,6 +574,10 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+#: Commands that never read or write a notebook (no jsonschema to keep from its IRI grammar).
+_WITHOUT_NOTEBOOKS = ("check", "new")
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the ``finkit`` command; returns the exit code.
 
@@ -586,9 +590,12 @@ def main(argv: list[str] | None = None) -> int:
     argv : list of str, optional
         Command-line arguments; default ``sys.argv[1:]``. [-]
     """
-    from finkit.notes.files import skip_unused_slow_imports
+    words = sys.argv[1:] if argv is None else list(argv)
+    if not words or words[0] not in _WITHOUT_NOTEBOOKS:
+        # finkit.notes costs about 0.02 s to import: not for a command that renders no note
+        from finkit.notes.files import skip_unused_slow_imports
 
-    skip_unused_slow_imports()
+        skip_unused_slow_imports()
     parser = build_parser()
     try:
         args = parser.parse_args(argv)

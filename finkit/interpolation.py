@@ -10,7 +10,12 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["MonotoneCubic", "uniform_spline", "uniform_spline_coefficients"]
+__all__ = [
+    "MonotoneCubic",
+    "uniform_spline",
+    "uniform_spline_coefficients",
+    "uniform_spline_weights",
+]
 
 
 def uniform_spline_coefficients(x: np.ndarray, y: np.ndarray) -> np.ndarray:
@@ -76,6 +81,36 @@ def uniform_spline(x: np.ndarray, y: np.ndarray):
         return ((c[0][k] * t + c[1][k]) * t + c[2][k]) * t + c[3][k]
 
     return spline
+
+
+def uniform_spline_weights(x: np.ndarray, q) -> np.ndarray:
+    """Weights ``w`` with ``w @ y == uniform_spline(x, y)(q)`` for any ``y`` (to round-off).
+
+    The spline is linear in the values at the nodes, so its value at ``q`` is a weighted sum of
+    them, the weights being the cardinal splines (the spline through each unit vector) at
+    ``q``. Many queries against values with many trailing dimensions then cost one matrix
+    product instead of gathering four coefficients per query and trailing element.
+
+    Parameters
+    ----------
+    x : numpy.ndarray
+        Uniform grid, increasing, at least 4 points [unit of x].
+    q : array_like
+        Query points; outside the grid the end polynomials are extended, as
+        :func:`uniform_spline` does [unit of x].
+
+    Returns
+    -------
+    numpy.ndarray
+        Shape ``q.shape + (x.size,)`` [-].
+    """
+    x = np.asarray(x, dtype=float)
+    c = uniform_spline_coefficients(x, np.eye(x.size))  # (4, n - 1, n): the cardinal splines
+    x0, h, last = float(x[0]), float(x[1] - x[0]), x.size - 2
+    q = np.asarray(q, dtype=float)
+    k = np.clip(np.floor((q - x0) / h).astype(int), 0, last)
+    t = (q - (x0 + k * h))[..., None]
+    return ((c[0][k] * t + c[1][k]) * t + c[2][k]) * t + c[3][k]
 
 
 class MonotoneCubic:

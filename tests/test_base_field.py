@@ -12,13 +12,16 @@ import numpy as np
 import pytest
 import scipy.sparse as sp
 from scipy.integrate import simpson
+from scipy.interpolate import CubicSpline
 from scipy.sparse.linalg import cg, spsolve
 
+import finkit.physics.base_field as base_field
 from finkit.errors import GeometryError, InputError
 from finkit.physics.base_field import (
     BasePlate,
     SourceFootprint,
     base_rise_map,
+    shared_rise_table,
     source_influence,
 )
 from finkit.physics.spreading import spreading_resistance_rectangular_series
@@ -540,3 +543,74 @@ def test_map_peaks_at_the_most_loaded_source_and_matches_centres():
         jy = int(np.argmin(np.abs(y - f.centre_across)))
         assert abs(x[jx] - f.centre_along) < 1e-12 and abs(y[jy] - f.centre_across) < 1e-12
         assert rise[jy, jx] == pytest.approx(value, rel=1e-10)
+
+
+# ---------------------------------------------------------------- 10. many designs at once
+
+SHARE = FV_POWERS / FV_POWERS.sum()
+
+
+def _direct(plate, h):
+    """Rises per watt of total power at one ``h``: the full influence matrix contracted."""
+    r = source_influence(plate, FV_SOURCES, h)
+    return r.mean @ SHARE, r.points @ SHARE
+
+
+@pytest.mark.identity
+def test_few_designs_take_the_direct_sums():
+    # Derivation: with no more distinct coefficients than nodes, each design's rises are the
+    # series summed at its own h (the same series as source_influence, summed in another order).
+    plate = _plate(400.0, 100.0)
+    h = np.array([[50.0, 800.0, 50.0], [3000.0, 800.0, 120.0]])
+    table = shared_rise_table(plate, FV_SOURCES, SHARE, h)
+    assert table.mean.shape == (2, 3, 3) and table.points.shape == (2, 3, 3, 81)
+    for index in np.ndindex(h.shape):
+        mean, points = _direct(plate, h[index])
+        np.testing.assert_allclose(table.mean[index], mean, rtol=1e-12)
+        np.testing.assert_allclose(table.points[index], points, rtol=1e-12)
+
+
+@pytest.mark.crosscheck
+def test_many_designs_are_the_cubic_spline_in_log_h_of_the_node_sums():
+    # Cross-check: scipy.interpolate.CubicSpline (not-a-knot) through the direct sums at the
+    # nodes, to rounding; and the interpolation itself within 1e-6 K/W of the direct sum at
+    # each design (the accuracy the module states).
+    plate = _plate(400.0, 100.0)
+    h = np.geomspace(20.0, 5000.0, 57)
+    table = shared_rise_table(plate, FV_SOURCES, SHARE, h)
+    grid = np.linspace(np.log(h[0]), np.log(h[-1]), base_field.INTERPOLATION_NODES)
+    nodes = [_direct(plate, v) for v in np.exp(grid)]
+    for got, at_nodes in (
+        (table.mean, np.stack([m for m, _ in nodes])),
+        (table.points, np.stack([p for _, p in nodes])),
+    ):
+        expected = CubicSpline(grid, at_nodes)(np.log(h))
+        np.testing.assert_allclose(got, expected, rtol=0, atol=1e-12 * np.abs(expected).max())
+    for k in (0, 13, 30, 56):
+        mean, points = _direct(plate, h[k])
+        np.testing.assert_allclose(table.mean[k], mean, rtol=0, atol=1e-6)
+        np.testing.assert_allclose(table.points[k], points, rtol=0, atol=1e-6)
+
+
+@pytest.mark.identity
+@pytest.mark.parametrize("count", [5, 2000], ids=["direct", "interpolated"])
+def test_peak_searched_by_blocks_is_the_largest_point(count, monkeypatch):
+    # Identity: the peak is the largest of scale * points + rate * offset over the sample
+    # points of each source, whatever the block size (the same arithmetic, block by block; a
+    # matrix product of other dimensions may round its last digit otherwise).
+    plate = _plate(400.0, 100.0)
+    rng = np.random.default_rng(5)
+    h = rng.uniform(30.0, 3000.0, count)
+    total = rng.uniform(10.0, 90.0, count)
+    rate = rng.uniform(0.0, 20.0, count)
+    table = shared_rise_table(plate, FV_SOURCES, SHARE, h)
+    offset = np.maximum(table.point_along / plate.length - 0.5, 0.0)
+    field = total[:, None, None] * table.points + rate[:, None, None] * offset
+    value, index = table.peak(total, rate, offset)
+    np.testing.assert_array_equal(value, field.max(axis=-1))
+    np.testing.assert_array_equal(index, field.argmax(axis=-1))
+    monkeypatch.setattr(base_field, "BLOCK_WORK", 3000)  # a block of a few designs
+    small_value, small_index = table.peak(total, rate, offset)
+    np.testing.assert_allclose(small_value, value, rtol=1e-14)
+    chosen = np.take_along_axis(field, small_index[..., None], axis=-1)[..., 0]
+    np.testing.assert_allclose(chosen, value, rtol=1e-14)

@@ -324,6 +324,35 @@ def test_plate_zero_flow():
     assert np.all(np.isfinite(r.pressure_drop))
 
 
+@pytest.mark.identity
+def test_plate_pressure_drop_alone_is_the_channel_flows_to_the_last_digit():
+    # Identity: the pressure drop without the heat transfer is the same arithmetic as the full
+    # channel flow's (what the fan and bypass solvers call), for arrays of flows and heights,
+    # both tops, every loss model; the VDI method shares it too.
+    q = np.array([0.0, 1e-4, 0.004, 0.02, 0.08])[:, None]
+    heights = np.array([0.01, 0.035, 0.06])
+    geometry = {k: v for k, v in PLATE_ARGS.items() if k not in ("thermal_conductivity", "prandtl")}
+    geometry["fin_height"] = heights
+    for shrouded in (True, False):
+        for loss_model in forced.LOSS_MODELS:
+            full = forced.plate_fin_channel_flow(
+                q, **{**PLATE_ARGS, "fin_height": heights}, is_shrouded=shrouded,
+                loss_model=loss_model,
+            )  # fmt: skip
+            alone = forced.plate_fin_channel_pressure_drop(
+                q, **geometry, is_shrouded=shrouded, loss_model=loss_model
+            )
+            assert alone.shape == full.pressure_drop.shape == (5, 3)
+            np.testing.assert_array_equal(alone, full.pressure_drop)
+    vdi = forced.plate_fin_channel_flow(0.004, **PLATE_ARGS, method="vdi")
+    geometry["fin_height"] = PLATE_ARGS["fin_height"]
+    assert float(forced.plate_fin_channel_pressure_drop(0.004, **geometry)) == vdi.pressure_drop
+    with pytest.raises(InputError, match="volume_flow"):
+        forced.plate_fin_channel_pressure_drop(-1e-3, **geometry)
+    with pytest.raises(GeometryError, match="fins do not fit"):
+        forced.plate_fin_channel_pressure_drop(1e-3, **{**geometry, "fin_count": 100})
+
+
 @settings(max_examples=50, deadline=None)
 @given(
     fin_count=st.integers(min_value=4, max_value=40),

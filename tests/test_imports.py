@@ -143,6 +143,19 @@ def test_commands_skip_the_unused_iri_grammar_and_notebooks_still_validate():
     assert _python(code).splitlines()[-1] == "None"
 
 
+def test_check_imports_no_note_machinery(demo_case_file):
+    # finkit check renders no note: the notes package (and nbformat) stay unimported.
+    case = demo_case_file("nb400-board-sources")
+    code = (
+        "import sys; from finkit import cli; cli.main(['check', sys.argv[1]]); "
+        "print(sorted(m for m in sys.modules if m.startswith(('finkit.notes', 'nbformat'))))"
+    )
+    run = subprocess.run(
+        [sys.executable, "-c", code, str(case)], capture_output=True, text=True, check=True
+    )
+    assert run.stdout.strip().splitlines()[-1] == "[]"
+
+
 def _import_graph() -> dict[str, set[str]]:
     """finkit module -> the finkit modules it imports anywhere in its text (ast)."""
     import ast

@@ -13,7 +13,7 @@ import pytest
 from scipy.interpolate import CubicSpline, PchipInterpolator
 from scipy.optimize import least_squares
 
-from finkit.interpolation import MonotoneCubic, uniform_spline
+from finkit.interpolation import MonotoneCubic, uniform_spline, uniform_spline_weights
 from finkit.model.review.calibration import _one_parameter_fit
 
 
@@ -50,6 +50,33 @@ def test_uniform_spline_is_scipys_not_a_knot_cubic_spline():
     y = np.sin(2.0 * x) + 0.1 * x**3
     q = np.linspace(-2.0, 3.0, 1001)
     np.testing.assert_allclose(uniform_spline(x, y)(q), CubicSpline(x, y)(q), rtol=0, atol=1e-12)
+
+
+@pytest.mark.crosscheck
+def test_uniform_spline_weights_give_scipys_not_a_knot_spline_of_any_values():
+    # Cross-check: scipy.interpolate.CubicSpline (not-a-knot, extrapolating its end pieces),
+    # for values with trailing dimensions, at queries inside the grid, on its nodes and beyond.
+    rng = np.random.default_rng(3)
+    x = np.linspace(np.log(5.0), np.log(400.0), 16)
+    y = np.exp(-0.3 * x)[:, None, None] * rng.uniform(0.5, 2.0, (1, 3, 81))
+    q = np.concatenate([rng.uniform(x[0], x[-1], 500), x, [x[0] - 0.05, x[-1] + 0.05]])
+    w = uniform_spline_weights(x, q)
+    assert w.shape == (q.size, x.size)
+    expected = CubicSpline(x, y)(q)
+    got = (w @ y.reshape(x.size, -1)).reshape(expected.shape)
+    np.testing.assert_allclose(got, expected, rtol=0, atol=1e-12 * np.abs(y).max())
+    # ... the same spline as uniform_spline evaluates piece by piece
+    np.testing.assert_allclose(got, uniform_spline(x, y)(q), rtol=0, atol=1e-13 * np.abs(y).max())
+
+
+@pytest.mark.identity
+def test_uniform_spline_weights_are_a_partition_of_unity_and_cardinal_on_the_nodes():
+    # Identity: a spline through constant values is that constant, so every row sums to 1; at
+    # a node the spline takes the node's value, so the weights there are a unit vector.
+    x = np.linspace(0.0, 3.0, 9)
+    w = uniform_spline_weights(x, np.linspace(-0.2, 3.2, 41))
+    np.testing.assert_allclose(w.sum(axis=1), 1.0, rtol=0, atol=1e-13)
+    np.testing.assert_allclose(uniform_spline_weights(x, x), np.eye(x.size), rtol=0, atol=1e-13)
 
 
 @pytest.mark.crosscheck

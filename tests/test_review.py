@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import copy
 import types
-from dataclasses import replace
+from dataclasses import asdict, replace
 from pathlib import Path
 
 import numpy as np
@@ -500,6 +500,19 @@ def test_correlation_spread_plate_fin_forced(fan_case):
     }
     assert by_loss["kays_london"].pressure_drop != by_loss["culham_muzychka"].pressure_drop
     assert by_loss["kays_london"].volume_flow != by_loss["culham_muzychka"].volume_flow
+
+
+@pytest.mark.identity
+@pytest.mark.parametrize("stem", ["nb200-plate-fan", "nb100-natural", "nb400-board-sources"])
+def test_correlation_spread_takes_the_chosen_rows_known_states(stem):
+    # Identity: a caller that has solve(inputs) and allowable(inputs) already (the governing
+    # row of the scenario table) hands them over; the spread is the same to the last digit.
+    inputs = run_case(load_case(raw(stem))).conditions.governing_row.inputs
+    fresh = correlation_spread(inputs)
+    handed = correlation_spread(inputs, stated=solve(inputs), at_margin=allowable(inputs))
+    # (NaN pressure drop and flow in still air compare equal here)
+    np.testing.assert_equal([asdict(r) for r in handed.rows], [asdict(r) for r in fresh.rows])
+    np.testing.assert_equal(handed.spread, fresh.spread)
 
 
 @pytest.mark.identity

@@ -18,7 +18,7 @@ import yaml
 from finkit.case import CaseError, load_case
 from finkit.constants import ZERO_CELSIUS
 from finkit.model import run_case
-from finkit.model.design import sink_inputs, solve, solve_condition
+from finkit.model.design import airflow_of, allowable, sink_inputs, solve, solve_condition
 
 pytestmark = pytest.mark.identity
 
@@ -199,6 +199,20 @@ def test_allowable_power_scales_every_source_until_the_governing_one_reaches_its
     assert float(at.power) == pytest.approx(state.results["allowable_power"])
     stated = np.array([s.power for s in case.sources])
     assert np.asarray(t.power) == pytest.approx(stated * float(at.power) / stated.sum())
+
+
+@pytest.mark.identity
+def test_the_allowable_power_search_started_from_the_stated_state_is_unchanged(board):
+    # Identity: the search starts from the state at the stated powers; handing over that state,
+    # already solved, in place of solving it again gives the same numbers to the last digit.
+    inputs = sink_inputs(load_case(board))
+    airflow = airflow_of(inputs)
+    stated = solve(inputs, airflow=airflow)
+    for margin in (None, 0.0):
+        fresh = allowable(inputs, margin, airflow=airflow)
+        handed = allowable(inputs, margin, airflow=airflow, stated=stated)
+        assert float(handed.power) == float(fresh.power)
+        np.testing.assert_array_equal(handed.sources.junction, fresh.sources.junction)
 
 
 def test_power_of_one_source_with_the_others_held(board):
@@ -384,6 +398,29 @@ def test_monte_carlo_with_several_sources_checks_each_against_its_own_limit(boar
     assert shares[gov.governing_source] == pytest.approx(mc.probability_exceeding_limit)
     payload = result.to_json_dict()["uncertainty"]
     assert payload["probability_exceeding_limit_any_source"]["unit"] == "1"
+
+
+@pytest.mark.identity
+def test_the_studies_take_the_governing_state_instead_of_solving_it_again(board_result):
+    # Identity: the Monte Carlo and the tornado start from solve(inputs) of the governing
+    # condition, which the scenario table has already solved with the same inputs; handing it
+    # over gives the same numbers to the last digit.
+    from finkit.case.explore_blocks import to_tolerances
+    from finkit.model.uncertainty import monte_carlo, sensitivity
+
+    case, result = board_result
+    gov = result.conditions.governing_row
+    again = solve(gov.inputs)
+    for name in ("junction_temperature", "base_temperature", "volume_flow", "sink_resistance"):
+        assert float(getattr(again, name)) == float(getattr(gov.solution, name))
+    np.testing.assert_array_equal(again.sources.junction, gov.solution.sources.junction)
+    tolerances = to_tolerances(case.tolerances)
+    fresh = monte_carlo(gov.inputs, tolerances, 500, 4)
+    handed = monte_carlo(gov.inputs, tolerances, 500, 4, nominal=gov.solution)
+    assert handed.summary() == fresh.summary()
+    np.testing.assert_array_equal(handed.junction_temperature, fresh.junction_temperature)
+    bars = sensitivity(gov.inputs, tolerances, nominal=gov.solution)
+    assert bars == sensitivity(gov.inputs, tolerances)
 
 
 def test_one_source_tolerances_are_refused_with_several_sources(board):

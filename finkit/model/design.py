@@ -370,16 +370,16 @@ def source_surplus(inputs: SinkInputs, state: SourcesState, margin=None) -> np.n
     return usable - _node_of_sources(inputs, state)
 
 
-def _allowable_sources(inputs: SinkInputs, margin, airflow) -> SinkSolution:
+def _allowable_sources(inputs: SinkInputs, margin, airflow, stated=None) -> SinkSolution:
     """State at the common scale of every source's power that brings the governing source to
     its limit less its margin (fixed point on the scale, design by design; each step a full
-    sink solve)."""
+    sink solve), starting from ``stated`` (the state at the stated powers) when given."""
     t_in = np.asarray(inputs.air.inlet_temperature, float)
     usable = np.array([lim - (req if margin is None else margin) for _, lim, req in inputs.limits])
     if airflow is None:
         airflow = airflow_of(inputs)  # it does not depend on the power: once for every step
     power = np.asarray(inputs.source.power, float)
-    sol = solve(inputs, airflow=airflow)
+    sol = solve(inputs, airflow=airflow) if stated is None else stated
     total = np.broadcast_to(power, np.shape(sol.power)).astype(float).copy()
     hopeless = (
         np.any(usable <= t_in[..., None], axis=-1) if np.ndim(t_in) else np.any(usable <= t_in)
@@ -471,7 +471,12 @@ def solve(inputs: SinkInputs, *, airflow=None, **replacements) -> SinkSolution:
 
 
 def allowable(
-    inputs: SinkInputs, margin: float | None = None, *, airflow=None, **replacements
+    inputs: SinkInputs,
+    margin: float | None = None,
+    *,
+    airflow=None,
+    stated: SinkSolution | None = None,
+    **replacements,
 ) -> SinkSolution:
     """State at the allowable power: limit node at the limit less ``margin`` [K].
 
@@ -483,12 +488,16 @@ def allowable(
         Margin below the limit; default the case's required margin. [K]
     airflow : object, optional
         :func:`airflow_of` the same inputs, to share between solves. [-]
+    stated : SinkSolution, optional
+        With several sources: ``solve(inputs, airflow=airflow)`` already at hand (the state at
+        the stated powers, where the search starts), so that it is not solved again; ignored
+        with ``replacements`` [-].
     **replacements
         Fields of :class:`SinkInputs` replaced for this solve (whole objects). [-]
     """
     i = replace(inputs, **replacements) if replacements else inputs
     if i.sources is not None:
-        return _allowable_sources(i, margin, airflow)
+        return _allowable_sources(i, margin, airflow, None if replacements else stated)
     margin = i.required_margin if margin is None else margin
     return solve_allowable_power(
         i.geometry,
@@ -723,12 +732,12 @@ def _solve_condition_sources(inputs: SinkInputs) -> ConditionState:
     rows = source_rows(inputs, sol)
     gov = rows[0]
     if all(lim - req > t_in + 1e-6 for _, lim, req in inputs.limits):
-        at_margin = allowable(inputs, airflow=airflow)
+        at_margin = allowable(inputs, airflow=airflow, stated=sol)
         allowable_power = float(at_margin.power)
     else:
         at_margin, allowable_power = None, 0.0
     if all(lim > t_in + 1e-6 for _, lim, _ in inputs.limits):
-        power_at_limit = float(allowable(inputs, margin=0.0, airflow=airflow).power)
+        power_at_limit = float(allowable(inputs, margin=0.0, airflow=airflow, stated=sol).power)
     else:
         power_at_limit = 0.0
     results = _condition_results(inputs, sol)

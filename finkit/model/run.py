@@ -189,11 +189,13 @@ def _uncertainty(case, governing) -> UncertaintyResult | None:
     settings = case.monte_carlo or MonteCarloBlock()
     tolerances = to_tolerances(case.tolerances)
     inputs = governing.inputs
+    # The governing row's state at the stated power is solve(inputs): not solved again.
+    nominal = governing.solution
     return UncertaintyResult(
         monte_carlo=monte_carlo(
-            inputs, tolerances, settings.samples, settings.seed, settings.sampling
+            inputs, tolerances, settings.samples, settings.seed, settings.sampling, nominal=nominal
         ),
-        tornado=sensitivity(inputs, tolerances, settings.tornado_coverage),
+        tornado=sensitivity(inputs, tolerances, settings.tornado_coverage, nominal=nominal),
         condition=governing.name,
     )
 
@@ -234,7 +236,12 @@ def _review(case, inputs: SinkInputs, governing_inputs, table, calibration) -> R
         scenarios=table,
         touch=touch,
         calibration=calibration,
-        spread=correlation_spread(governing_inputs),
+        # The governing row has solved the chosen correlations already: not solved again.
+        spread=correlation_spread(
+            governing_inputs,
+            stated=table.governing_row.solution,
+            at_margin=table.governing_row.allowable,
+        ),
         flags=tuple(sanity_flags(case, inputs)),
         calibrated_governing=other,
     )

@@ -454,6 +454,8 @@ def monte_carlo(
     samples: int = 100_000,
     seed: int | np.random.Generator | None = 0,
     method: str = "random",
+    *,
+    nominal: SinkSolution | None = None,
 ) -> MonteCarloResult:
     """Monte Carlo of the node temperatures over the input tolerances, in one vectorised solve.
 
@@ -472,6 +474,8 @@ def monte_carlo(
     method : {"random", "latin-hypercube"}
         Independent random numbers, or a Latin hypercube (stratified marginals; the inputs
         remain independent) [-].
+    nominal : SinkSolution, optional
+        ``solve(inputs)`` when the caller has it already (not solved again) [-].
 
     Returns
     -------
@@ -497,7 +501,7 @@ def monte_carlo(
     _check_tolerances(inputs, tolerances)
     rng = seed if isinstance(seed, np.random.Generator) else np.random.default_rng(seed)
     values = _draw(inputs, tolerances, count, rng, method)
-    nominal = solve(inputs)
+    nominal = solve(inputs) if nominal is None else nominal
     sol = solve(_with_values(inputs, values)) if values else nominal
 
     def full(a):
@@ -602,6 +606,8 @@ def sensitivity(
     inputs: SinkInputs,
     tolerances: Mapping[str, Tolerance],
     coverage: float = 0.95,
+    *,
+    nominal: SinkSolution | None = None,
 ) -> Tornado:
     """One-at-a-time sensitivity of the limit-node temperature (tornado-chart data).
 
@@ -619,6 +625,8 @@ def sensitivity(
         Central probability of the interval, in (0, 1] [-]; 0.95 puts a normal input at
         ±1.96 σ and a uniform one at 95 % of its range. The same coverage for every input keeps
         the bars comparable across distributions.
+    nominal : SinkSolution, optional
+        ``solve(inputs)`` when the caller has it already (not solved again) [-].
 
     Returns
     -------
@@ -628,7 +636,7 @@ def sensitivity(
     if not 0.0 < coverage <= 1.0:
         raise InputError(f"coverage: got {coverage!r}; must be in (0, 1]")
     _check_tolerances(inputs, tolerances)
-    nominal_sol = solve(inputs)
+    nominal_sol = solve(inputs) if nominal is None else nominal
     t_nominal = float(limit_node_temperature(inputs, nominal_sol))
     names = [
         n

@@ -49,14 +49,15 @@ from dataclasses import dataclass
 import numpy as np
 
 from finkit.errors import GeometryError, InputError
-from finkit.interpolation import uniform_spline
+from finkit.interpolation import uniform_spline_weights
 
 __all__ = [
     "BasePlate",
+    "SharedRiseTable",
     "SourceFootprint",
     "SourceInfluence",
     "base_rise_map",
-    "shared_rises",
+    "shared_rise_table",
     "source_influence",
 ]
 
@@ -70,9 +71,17 @@ MAX_MODES = 480
 #: Points per footprint edge at which the peak base temperature under a source is sought.
 PEAK_POINTS = 9
 
-#: Values of the finned-face coefficient at which :func:`shared_rises` sums the series before
+#: Values of the finned-face coefficient at which :func:`shared_rise_table` sums the series before
 #: interpolating, for more designs than this.
 INTERPOLATION_NODES = 16
+
+#: Work (designs x nodes x values) of one block of :class:`SharedRiseTable`'s matrix products.
+#: OpenBLAS runs a product this small on the calling thread (its limit is 65536 times its
+#: GEMM_MULTITHREAD_THRESHOLD, 4); larger ones wake its threads, which on a machine of few,
+#: busy cores cost more than they save (measured: a 20 000-sample Monte Carlo of three sources
+#: took 0.3 s instead of 0.18 s). Blocks this size also keep the field in cache, where one array
+#: of 20 000 x 243 values (39 MB) would cost more in page faults than in arithmetic.
+BLOCK_WORK = 2**18
 
 
 @dataclass(frozen=True)
@@ -300,7 +309,114 @@ def source_influence(
     )
 
 
-def shared_rises(
+@dataclass(frozen=True)
+class SharedRiseTable:
+    """Rises per watt of total power of many designs, as the sums at a few values of ``h``.
+
+    Either each design takes the node of its own ``h`` (``selection``; at most ``nodes``
+    distinct values, the sums exact) or a weighted sum of the nodes (``weights``: the
+    not-a-knot cubic spline in ``log h`` written as cardinal weights, so ``weights @ values``
+    is the spline through the node values). Made by :func:`shared_rise_table`.
+
+    Attributes
+    ----------
+    node_mean : numpy.ndarray
+        ``node_mean[u, i]``: mean rise under source ``i`` at node ``u`` [K W⁻¹].
+    node_points : numpy.ndarray
+        ``node_points[u, i, k]``: rise at sample point ``k`` of source ``i`` at node ``u``
+        [K W⁻¹].
+    selection : numpy.ndarray or None
+        ``selection[d]``: the node of design ``d`` (designs flattened), or None [-].
+    weights : numpy.ndarray or None
+        ``weights[d, u]``: the spline weight of node ``u`` for design ``d``, or None [-].
+    point_along, point_across : numpy.ndarray
+        Coordinates of the sample points ``[i, k]`` from the inlet-side corner [m].
+    design_shape : tuple of int
+        Shape of the design axes [-].
+    """
+
+    node_mean: np.ndarray
+    node_points: np.ndarray
+    selection: np.ndarray | None
+    weights: np.ndarray | None
+    point_along: np.ndarray
+    point_across: np.ndarray
+    design_shape: tuple[int, ...]
+
+    def _rows(self, values: np.ndarray, rows: slice) -> np.ndarray:
+        """Per-design values (designs flattened, ``rows`` of them) from the node values."""
+        flat = values.reshape(values.shape[0], -1)
+        if self.selection is not None:
+            return flat[self.selection[rows]]
+        return self.weights[rows] @ flat
+
+    def _blocks(self, values_per_design: int):
+        """Slices of the flattened designs, a block of matrix work at a time (BLOCK_WORK)."""
+        count = int(np.prod(self.design_shape, dtype=int))
+        nodes = self.node_mean.shape[0]
+        block = max(1, BLOCK_WORK // max(1, nodes * values_per_design))
+        return [slice(start, min(start + block, count)) for start in range(0, count, block)]
+
+    def _per_design(self, values: np.ndarray) -> np.ndarray:
+        size = int(np.prod(values.shape[1:], dtype=int))
+        out = np.empty((int(np.prod(self.design_shape, dtype=int)), size))
+        for rows in self._blocks(size):
+            out[rows] = self._rows(values, rows)
+        return out.reshape(self.design_shape + values.shape[1:])
+
+    @property
+    def mean(self) -> np.ndarray:
+        """``mean[..., i]``: mean rise under source ``i`` per watt of total power [K W⁻¹]."""
+        return self._per_design(self.node_mean)
+
+    @property
+    def points(self) -> np.ndarray:
+        """``points[..., i, k]``: rise at sample point ``k`` of source ``i`` per watt of total
+        power [K W⁻¹] (every design at once: for many designs prefer :meth:`peak`)."""
+        return self._per_design(self.node_points)
+
+    def peak(self, scale, offset_rate, offset_field) -> tuple[np.ndarray, np.ndarray]:
+        """Highest of ``scale * points + offset_rate * offset_field`` under each source.
+
+        Evaluated in blocks of designs (:data:`BLOCK_WORK`), with the same arithmetic as
+        forming ``points`` whole (the same numbers, but for the last digit a matrix product of
+        other dimensions may round differently).
+
+        Parameters
+        ----------
+        scale : float or array_like
+            Per design: the total power multiplying the rises per watt [W].
+        offset_rate : float or array_like
+            Per design: the multiplier of ``offset_field`` (an air temperature rise) [K].
+        offset_field : array_like
+            ``offset_field[i, k]``: a term added at each sample point per unit of
+            ``offset_rate`` [-].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(value[..., i], index[..., i])``: the highest value under source ``i`` [K] and
+            the index of its sample point [-].
+        """
+        count = int(np.prod(self.design_shape, dtype=int))
+        n_src = self.node_points.shape[1]
+        scale = np.broadcast_to(np.asarray(scale, float), self.design_shape).reshape(-1, 1)
+        rate = np.broadcast_to(np.asarray(offset_rate, float), self.design_shape).reshape(-1, 1)
+        offset = np.broadcast_to(np.asarray(offset_field, float), self.node_points.shape[1:])
+        offset = offset.reshape(1, -1)
+        value = np.empty((count, n_src))
+        index = np.empty((count, n_src), dtype=int)
+        for rows in self._blocks(offset.size):
+            field = scale[rows] * self._rows(self.node_points, rows) + rate[rows] * offset
+            field = field.reshape(-1, n_src, offset.size // n_src)
+            where = np.argmax(field, axis=-1)
+            index[rows] = where
+            value[rows] = np.take_along_axis(field, where[..., None], axis=-1)[..., 0]
+        shape = self.design_shape + (n_src,)
+        return value.reshape(shape), index.reshape(shape)
+
+
+def shared_rise_table(
     plate: BasePlate,
     footprints,
     shares,
@@ -309,15 +425,17 @@ def shared_rises(
     modes: int | None = None,
     peak_points: int = PEAK_POINTS,
     nodes: int = INTERPOLATION_NODES,
-):
+) -> SharedRiseTable:
     """Rises per watt of total power for many designs whose sources keep their power shares.
 
     When the sources scale together (a sweep of the total power, of the airflow or of the
-    inlet air, a scenario's power factor), each design differs only in the coefficient on the
-    finned face; the rises per watt of total power are smooth in ``log h``, so for more
-    designs than ``nodes`` they are computed at ``nodes`` values of ``h`` spread over the
-    range and interpolated (not-a-knot cubic spline in ``log h``; within 1e-6 of the largest
-    rise of the direct sum, tested).
+    inlet air, a scenario's power factor, a Monte Carlo's samples), each design differs only
+    in the coefficient on the finned face; the rises per watt of total power are smooth in
+    ``log h``, so for more designs than ``nodes`` they are computed at ``nodes`` values of
+    ``h`` spread over the range and interpolated (not-a-knot cubic spline in ``log h``; within
+    1e-6 of the direct sum, tested). The table keeps those sums and each design's weights on
+    them, so that :meth:`SharedRiseTable.peak` searches the sample points of many designs block
+    by block instead of forming them all at once.
 
     Parameters
     ----------
@@ -338,32 +456,31 @@ def shared_rises(
 
     Returns
     -------
-    tuple of numpy.ndarray
-        ``(mean, points, point_along, point_across)``: ``mean[..., i]`` the mean rise under
-        source ``i`` and ``points[..., i, k]`` the rise at its sample point ``k``, per watt of
-        total power [K W⁻¹], the design axes first; the sample points' coordinates ``[i, k]``
-        [m].
+    SharedRiseTable
+        Node sums and the designs' selection or spline weights [-].
     """
     geometry = _Geometry.of(plate, tuple(footprints), modes, peak_points)
     share = np.asarray(shares, float)
     h = _positive_h(heat_transfer_coefficient)
     flat = h.ravel()
     unique, inverse = np.unique(flat, return_inverse=True)
+    selection = weights = None
     if unique.size <= nodes:
-        values = [geometry.shared_influence(v, share) for v in unique]
-        mean = np.stack([m for m, _ in values])[inverse]
-        points = np.stack([p for _, p in values])[inverse]
+        at = unique
+        selection = inverse.ravel()
     else:
         grid = np.linspace(np.log(unique[0]), np.log(unique[-1]), nodes)
-        values = [geometry.shared_influence(v, share) for v in np.exp(grid)]
-        mean = uniform_spline(grid, np.stack([m for m, _ in values]))(np.log(flat))
-        points = uniform_spline(grid, np.stack([p for _, p in values]))(np.log(flat))
-    n_src = len(geometry.lx)
-    return (
-        mean.reshape(h.shape + (n_src,)),
-        points.reshape(h.shape + (n_src, -1)),
-        geometry.point_along,
-        geometry.point_across,
+        at = np.exp(grid)
+        weights = uniform_spline_weights(grid, np.log(flat))
+    values = [geometry.shared_influence(v, share) for v in at]
+    return SharedRiseTable(
+        node_mean=np.stack([m for m, _ in values]),
+        node_points=np.stack([p for _, p in values]),
+        selection=selection,
+        weights=weights,
+        point_along=geometry.point_along,
+        point_across=geometry.point_across,
+        design_shape=h.shape,
     )
 
 

@@ -468,11 +468,15 @@ class ScenarioTable:
         raise InputError(f"scenarios: no scenario named {name!r}")
 
 
-def _allowable_power(inputs: SinkInputs, airflow=None) -> float:
+def _allowable_power(inputs: SinkInputs, airflow=None, stated=None, known=None) -> float:
+    """``allowable(inputs).power``, 0 where the inlet air leaves no room; ``known``: that
+    allowable state already solved, ``stated``: ``solve(inputs)`` (where the search starts)."""
     usable = inputs.limit_temperature - inputs.required_margin
     if usable <= float(np.max(inputs.air.inlet_temperature)) + 1e-6:
         return 0.0
-    return float(allowable(inputs, airflow=airflow).power)
+    if known is not None:
+        return float(known.power)
+    return float(allowable(inputs, airflow=airflow, stated=stated).power)
 
 
 def _row(name, description, inputs: SinkInputs, scenario: Scenario | None = None) -> ScenarioRow:

@@ -18,6 +18,7 @@ from finkit.physics.sink.inputs import (
     PLATE_CHANNEL_CHOICES,
     NaturalConvection,
 )
+from finkit.physics.sink.results import SinkSolution
 
 __all__ = [
     "CorrelationSpread",
@@ -126,13 +127,22 @@ def _spread_axes(inputs: SinkInputs) -> dict[str, tuple[str, ...]]:
     return {k: tuple(v) for k, v in candidates.items() if len(v) > 1}
 
 
-def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
+def correlation_spread(
+    inputs: SinkInputs,
+    *,
+    stated: SinkSolution | None = None,
+    at_margin: SinkSolution | None = None,
+) -> CorrelationSpread:
     """Headline results with each accepted alternative correlation, and their spread.
 
     Parameters
     ----------
     inputs : SinkInputs
         The case; its own model choices give the chosen row. [-]
+    stated : SinkSolution, optional
+        ``solve(inputs)`` when the caller has it (the chosen row is then not solved again) [-].
+    at_margin : SinkSolution, optional
+        ``allowable(inputs)`` when the caller has it, likewise [-].
 
     Returns
     -------
@@ -166,18 +176,21 @@ def correlation_spread(inputs: SinkInputs) -> CorrelationSpread:
         if flow_key not in airflows:
             airflows[flow_key] = airflow_of(variant)
         airflow = airflows[flow_key]
-        sol = solve(variant, airflow=airflow)
+        is_chosen = combo == chosen
+        sol = stated if is_chosen and stated is not None else solve(variant, airflow=airflow)
         rows.append(
             SpreadRow(
                 label=", ".join(f"{k}={v}" for k, v in combo.items()) or "as chosen",
                 methods=dict(combo),
-                is_chosen=combo == chosen,
+                is_chosen=is_chosen,
                 junction_temperature=float(sol.junction_temperature),
                 node_temperature=float(limit_node_temperature(inputs, sol)),
                 sink_resistance=float(sol.sink_resistance),
                 pressure_drop=float(sol.pressure_drop),
                 volume_flow=float(sol.volume_flow),
-                allowable_power=_allowable_power(variant, airflow),
+                allowable_power=_allowable_power(
+                    variant, airflow, stated=sol, known=at_margin if is_chosen else None
+                ),
             )
         )
     chosen_row = rows[0]

@@ -219,7 +219,7 @@ def sink_pressure_drop(
         ``pressure_drop_factor`` applied to the result [-].
     """
     if isinstance(geometry, PlateFinSink):
-        flow = forced.plate_fin_channel_flow(
+        dp = forced.plate_fin_channel_pressure_drop(
             volume_flow,
             geometry.base_width,
             geometry.fin_count,
@@ -228,14 +228,14 @@ def sink_pressure_drop(
             geometry.base_length,
             density,
             dynamic_viscosity,
-            1.0,
-            1.0,
             is_shrouded=is_shrouded,
             loss_model=options.loss_model,
         )
     else:
-        flow = _pin_flow(geometry, volume_flow, density, dynamic_viscosity, 1.0, 1.0, options)
-    return flow.pressure_drop * options.pressure_drop_factor
+        dp = _pin_flow(
+            geometry, volume_flow, density, dynamic_viscosity, 1.0, 1.0, options
+        ).pressure_drop
+    return dp * options.pressure_drop_factor
 
 
 def _pin_flow(

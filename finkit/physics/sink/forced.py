@@ -529,16 +529,20 @@ def _solve_forced(
         if credit is not None:
             combined, radiation = mixed(1.0 / conv.sink_resistance, base_excess)
             conv = replace(conv, sink_resistance=1.0 / combined)
-        r_sp, r_base, r_sp_centre = _chain(geometry, material, source, conv.sink_resistance)
         if limit is None:
             q = np.asarray(power, float)
         else:
+            r_sp, r_base, r_sp_centre = _chain(geometry, material, source, conv.sink_resistance)
             node, t_limit = limit
             above_base = _above_base(node, r_sp + r_base, source, r_sp_centre + r_base)
             q = np.maximum(t_limit - t_in, 0.0) / (conv.sink_resistance + above_base)
         previous, base_excess = base_excess, q * conv.sink_resistance
         if np.all(np.abs(base_excess - previous) <= FILM_TOLERANCE):
             break
+    if limit is None:
+        # At a given power the film passes need only the sink resistance: the chain above the
+        # base once, from the last pass (the same numbers as computing it on every pass).
+        r_sp, r_base, r_sp_centre = _chain(geometry, material, source, conv.sink_resistance)
     if credit is not None and np.any(t_in + 0.5 * base_excess > _HOTTEST_FILM):
         air_properties(t_in + 0.5 * base_excess, air.pressure)  # raises the range error
     mass_flow = inlet.density * airflow.sink_volume_flow

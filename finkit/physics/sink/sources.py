@@ -33,7 +33,7 @@ from finkit.physics.base_field import (
     BasePlate,
     SourceFootprint,
     base_rise_map,
-    shared_rises,
+    shared_rise_table,
     source_influence,
 )
 from finkit.physics.spreading import spreading_resistance_rectangular_series
@@ -229,28 +229,29 @@ def solve_sources(
         power = np.asarray(powers, float)
         influence = source_influence(plate, footprints, float(h))
         mean = influence.mean @ power
-        points = influence.points @ power
         along, across = influence.point_along, influence.point_across
+        peak, where = _peak(influence.points @ power, along, plate.length, rise)
     else:
         total = stated.sum() if total_power is None else np.asarray(total_power, float)
         t_b, r_sink, rise, total = np.broadcast_arrays(t_b, r_sink, rise, total)
         h = 1.0 / (r_sink * plate.length * plate.width)
+        power = total[..., None] * share
         if _is_lone_centred(layout):
             per_watt_mean, per_watt_points, along, across = _centred_series(layout, h)
+            mean = total[..., None] * per_watt_mean
+            points = total[..., None, None] * per_watt_points
+            peak, where = _peak(points, along, plate.length, rise)
         else:
-            per_watt_mean, per_watt_points, along, across = shared_rises(
-                plate, footprints, share, h
-            )
-        power = total[..., None] * share
-        mean = total[..., None] * per_watt_mean
-        points = total[..., None, None] * per_watt_points
+            # Many designs (a Monte Carlo's samples): the peaks are sought block by block, the
+            # same sums as forming every sample point of every design at once.
+            table = shared_rise_table(plate, footprints, share, h)
+            along, across = table.point_along, table.point_across
+            mean = total[..., None] * table.mean
+            peak, where = table.peak(total, rise, placement_offset(along, plate.length, 1.0))
     offset = placement_offset(
         np.array([f.centre_along for f in footprints]), plate.length, rise[..., None]
     )
-    # The peak point may lie downstream of the centre: its own placement term counts.
-    field = points + placement_offset(along, plate.length, rise[..., None, None])
-    where = np.argmax(field, axis=-1)
-    base_peak = t_b[..., None] + np.take_along_axis(field, where[..., None], axis=-1)[..., 0]
+    base_peak = t_b[..., None] + peak
     base_mean = t_b[..., None] + mean + offset
     r_int = np.array([s.interface_resistance for s in layout.sources], float)
     r_jc = np.array([s.junction_to_case_resistance for s in layout.sources], float)
@@ -272,6 +273,15 @@ def solve_sources(
     )
 
 
+def _peak(points, along, length: float, rise):
+    """Highest rise under each source with the air placement term of each sample point, and
+    the index of that point [K], [-]."""
+    # The peak point may lie downstream of the centre: its own placement term counts.
+    field = points + placement_offset(along, length, rise[..., None, None])
+    where = np.argmax(field, axis=-1)
+    return np.take_along_axis(field, where[..., None], axis=-1)[..., 0], where
+
+
 def _is_lone_centred(layout: SourceLayout) -> bool:
     """One source, centred on an isotropic base: the single-source chain's own series applies."""
     if len(layout.sources) != 1:
@@ -287,7 +297,7 @@ def _is_lone_centred(layout: SourceLayout) -> bool:
 
 def _centred_series(layout: SourceLayout, h):
     """Rises per watt of one centred source from the centred rectangular series (the one the
-    single-source chain uses, same truncation), shaped as :func:`shared_rises` returns them:
+    single-source chain uses, same truncation), shaped as a SharedRiseTable's mean and points:
     the mean, and the centre as the one sample point (the hottest point of a centred source)."""
     f, plate = layout.sources[0].footprint, layout.plate
     spread = spreading_resistance_rectangular_series(

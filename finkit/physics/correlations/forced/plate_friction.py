@@ -31,6 +31,7 @@ __all__ = [
     "loss_coefficients_culham_muzychka",
     "loss_coefficients_kays_london",
     "plate_fin_channel_flow",
+    "plate_fin_channel_pressure_drop",
     "pressure_drop_channel",
 ]
 
@@ -510,60 +511,33 @@ def plate_fin_channel_flow(
     GeometryError
         Fins that do not fit (``b <= 0``).
     """
-    # Long by design: one channel's heat transfer and pressure drop together, sharing the Reynolds
-    # number, the regime masks and the validity flags.
+    # The channels' hydraulics (velocities, Reynolds numbers, pressure drop) are those of
+    # plate_fin_channel_pressure_drop; the heat transfer shares their Reynolds numbers.
     _check_choice("method", method, PLATE_CHANNEL_METHODS)
-    _check_choice("loss_model", loss_model, LOSS_MODELS)
-    q_vol = _as_float(volume_flow)
-    if np.any(q_vol < 0):
-        raise InputError(f"volume_flow = {q_vol.min():.6g} m³/s is not allowed; it must be >= 0")
-    w = _as_float(base_width)
-    n = _as_float(fin_count)
-    t = _as_float(fin_thickness)
-    h_fin = _as_float(fin_height)
-    length = _as_float(fin_length)
-    rho = _as_float(density)
-    mu = _as_float(dynamic_viscosity)
+    sink = (base_width, fin_count, fin_thickness, fin_height, fin_length)
+    air = (density, dynamic_viscosity)
+    flow = _channel_hydraulics(
+        volume_flow, *sink, *air, is_shrouded, loss_model, momentum_coefficient
+    )
+    b, length, re_b, re_dh, nu_kin = flow.b, flow.length, flow.re_b, flow.re_dh, flow.nu_kin
+    v_ch, approach, dp, poiseuille = flow.v_ch, flow.approach, flow.dp, flow.poiseuille
     k_air = _as_float(thermal_conductivity)
     pr = _as_float(prandtl)
-    b = (w - n * t) / (n - 1.0)
-    if np.any(~(b > 0)):
-        raise GeometryError(
-            "fin_count * fin_thickness >= base_width: fins do not fit; the fin spacing "
-            "(W - N t)/(N - 1) must be > 0"
-        )
-    shrouded = np.asarray(is_shrouded, dtype=bool)
-    sigma = (n - 1.0) * b / w
-    approach = q_vol / (w * h_fin)
-    v_ch = approach / sigma
-    nu_kin = mu / rho
-    re_b = v_ch * b / nu_kin
     re_star = re_b * b / length
-    d_h = np.where(shrouded, 2.0 * b * h_fin / (b + h_fin), 4.0 * b * h_fin / (b + 2.0 * h_fin))
-    aspect = np.where(shrouded, b / h_fin, b / (2.0 * h_fin))
-    re_dh = v_ch * d_h / nu_kin
 
     # Heat transfer
-    re_gap = 2.0 * re_b
-    nu_vdi_2b = nusselt_plate_channel_vdi(re_gap, pr, 2.0 * b, length)
-    h_vdi = nu_vdi_2b * k_air / (2.0 * b)
     if method == "teertstra":
         h = nusselt_plate_channel_teertstra(re_star, pr) * k_air / b
         inlet_ref = np.ones(np.shape(h), dtype=bool)
     else:
-        h = h_vdi
+        re_gap = 2.0 * re_b
+        nu_vdi_2b = nusselt_plate_channel_vdi(re_gap, pr, 2.0 * b, length)
+        h = nu_vdi_2b * k_air / (2.0 * b)
         inlet_ref = np.zeros(np.shape(h), dtype=bool)
 
-    # Pressure drop (friction written as 2 mu V L (f Re) / D_h^2: finite at zero flow)
-    poiseuille = _channel_poiseuille(re_dh, aspect, length, d_h)
     with np.errstate(divide="ignore", invalid="ignore"):
         f_app = np.where(re_dh > 0, poiseuille / np.where(re_dh > 0, re_dh, 1.0), np.nan)
-    dp_friction = 2.0 * mu * v_ch * length * poiseuille / d_h**2
-    losses = loss_coefficients(sigma, loss_model, momentum_coefficient)
-    dyn = 0.5 * rho * v_ch**2
-    dp_c = losses.contraction * dyn
-    dp_e = losses.expansion * dyn
-    dp = dp_friction + dp_c + dp_e
+    d_h, sigma = flow.d_h, flow.sigma
 
     shape = np.broadcast_shapes(
         np.shape(h), np.shape(dp), np.shape(approach), np.shape(pr), np.shape(inlet_ref)
@@ -581,9 +555,9 @@ def plate_fin_channel_flow(
         nusselt=full(h * b / k_air),
         heat_transfer_coefficient=full(h),
         fanning_friction_apparent=full(f_app),
-        pressure_drop_friction=full(dp_friction),
-        pressure_drop_contraction=full(dp_c),
-        pressure_drop_expansion=full(dp_e),
+        pressure_drop_friction=full(flow.dp_friction),
+        pressure_drop_contraction=full(flow.dp_c),
+        pressure_drop_expansion=full(flow.dp_e),
         pressure_drop=full(dp),
         is_turbulent=full(re_dh > LAMINAR_LIMIT_REYNOLDS),
         is_inlet_referenced=full(inlet_ref),
@@ -595,4 +569,135 @@ def plate_fin_channel_flow(
         reynolds_length=full(v_ch * length / nu_kin),
         entry_length=full(0.05 * re_dh * d_h),
         channel_length=full(length),
+    )
+
+
+def plate_fin_channel_pressure_drop(
+    volume_flow,
+    base_width,
+    fin_count,
+    fin_thickness,
+    fin_height,
+    fin_length,
+    density,
+    dynamic_viscosity,
+    is_shrouded=True,
+    loss_model="kays_london",
+    momentum_coefficient=1.0,
+):
+    """Static pressure drop of a plate-fin heat sink's channels alone [Pa].
+
+    ``plate_fin_channel_flow(...).pressure_drop`` with the same arithmetic (the same numbers to
+    the last digit, tested), without the heat transfer: what a fan or bypass solver asks for
+    many times per operating point.
+
+    Parameters
+    ----------
+    volume_flow : float or array_like
+        Flow through the channels, bypass excluded, >= 0 [m³ s⁻¹].
+    base_width, fin_count, fin_thickness, fin_height, fin_length : float or array_like
+        Base width across the flow [m], number of fins [-], fin thickness, height (base to
+        tip) and length along the flow [m].
+    density, dynamic_viscosity : float or array_like
+        Air density [kg m⁻³] and dynamic viscosity [Pa s].
+    is_shrouded : bool or array_like, optional
+        Duct wall on the fin tips (True) or open top [-].
+    loss_model : str, optional
+        One of :data:`LOSS_MODELS` [-].
+    momentum_coefficient : float or array_like, optional
+        K_d of the Kays & London losses [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        ``dp = [K_c + 4 f_app L / D_h + K_e] rho V_ch^2 / 2`` (docs/methods.md e3-e5) [Pa].
+    """
+    sink = (base_width, fin_count, fin_thickness, fin_height, fin_length)
+    air = (density, dynamic_viscosity)
+    flow = _channel_hydraulics(
+        volume_flow, *sink, *air, is_shrouded, loss_model, momentum_coefficient
+    )
+    return np.asarray(flow.dp)
+
+
+class _Hydraulics(NamedTuple):
+    b: np.ndarray
+    length: np.ndarray
+    sigma: np.ndarray
+    approach: np.ndarray
+    v_ch: np.ndarray
+    nu_kin: np.ndarray
+    re_b: np.ndarray
+    d_h: np.ndarray
+    re_dh: np.ndarray
+    poiseuille: np.ndarray
+    dp_friction: np.ndarray
+    dp_c: np.ndarray
+    dp_e: np.ndarray
+    dp: np.ndarray
+
+
+def _channel_hydraulics(
+    volume_flow,
+    base_width,
+    fin_count,
+    fin_thickness,
+    fin_height,
+    fin_length,
+    density,
+    dynamic_viscosity,
+    is_shrouded,
+    loss_model,
+    momentum_coefficient,
+) -> _Hydraulics:
+    """Geometry, velocities, Reynolds numbers and pressure drop of the channels (the part of
+    :func:`plate_fin_channel_flow` that the heat transfer does not enter)."""
+    _check_choice("loss_model", loss_model, LOSS_MODELS)
+    q_vol = _as_float(volume_flow)
+    if np.any(q_vol < 0):
+        raise InputError(f"volume_flow = {q_vol.min():.6g} m³/s is not allowed; it must be >= 0")
+    w = _as_float(base_width)
+    n = _as_float(fin_count)
+    t = _as_float(fin_thickness)
+    h_fin = _as_float(fin_height)
+    length = _as_float(fin_length)
+    rho = _as_float(density)
+    mu = _as_float(dynamic_viscosity)
+    b = (w - n * t) / (n - 1.0)
+    if np.any(~(b > 0)):
+        raise GeometryError(
+            "fin_count * fin_thickness >= base_width: fins do not fit; the fin spacing "
+            "(W - N t)/(N - 1) must be > 0"
+        )
+    shrouded = np.asarray(is_shrouded, dtype=bool)
+    sigma = (n - 1.0) * b / w
+    approach = q_vol / (w * h_fin)
+    v_ch = approach / sigma
+    nu_kin = mu / rho
+    re_b = v_ch * b / nu_kin
+    d_h = np.where(shrouded, 2.0 * b * h_fin / (b + h_fin), 4.0 * b * h_fin / (b + 2.0 * h_fin))
+    aspect = np.where(shrouded, b / h_fin, b / (2.0 * h_fin))
+    re_dh = v_ch * d_h / nu_kin
+    # Pressure drop (friction written as 2 mu V L (f Re) / D_h^2: finite at zero flow)
+    poiseuille = _channel_poiseuille(re_dh, aspect, length, d_h)
+    dp_friction = 2.0 * mu * v_ch * length * poiseuille / d_h**2
+    losses = loss_coefficients(sigma, loss_model, momentum_coefficient)
+    dyn = 0.5 * rho * v_ch**2
+    dp_c = losses.contraction * dyn
+    dp_e = losses.expansion * dyn
+    return _Hydraulics(
+        b=b,
+        length=length,
+        sigma=sigma,
+        approach=approach,
+        v_ch=v_ch,
+        nu_kin=nu_kin,
+        re_b=re_b,
+        d_h=d_h,
+        re_dh=re_dh,
+        poiseuille=poiseuille,
+        dp_friction=dp_friction,
+        dp_c=dp_c,
+        dp_e=dp_e,
+        dp=dp_friction + dp_c + dp_e,
     )
