@@ -74,14 +74,16 @@ class TransientSolution:
     power : ndarray, shape (m,)
         Power at each output time [W].
     peak_temperature : ndarray, shape (designs, n)
-        Highest temperature of each node [K].
+        Highest temperature of each node, interior maxima included (``"exact"``; the ODE
+        methods take it at their steps) [K].
     time_to_limit : ndarray, shape (designs,)
         First time the limit node reaches the limit temperature; NaN if it never does (or no
         limit was given) [s].
     supplied_energy : ndarray, shape (designs,)
         Energy put in by the power [J].
     convected_energy : ndarray, shape (designs,)
-        Energy carried to the air (integrated alongside the temperatures) [J].
+        Energy carried to the air (integrated exactly, or by the ODE solver alongside the
+        temperatures) [J].
     stored_energy : ndarray, shape (designs,)
         Change of the energy held by the node capacities [J].
     switch_times : tuple of float
