@@ -3,8 +3,10 @@
 - :mod:`~finkit.physics.transient.network`: the RC network built from a steady solution, and
   the lumping checks of the fins;
 - :mod:`~finkit.physics.transient.profiles`: power as a function of time;
-- :mod:`~finkit.physics.transient.simulate`: the history by a stiff ODE solver, and the steady
-  state of the network;
+- :mod:`~finkit.physics.transient.simulate`: the history (exact, or by a stiff ODE solver), and
+  the steady state of the network;
+- :mod:`~finkit.physics.transient.modal`: the network reduced to its nodes with capacity and
+  the exact solution of each piece of the history through its modes;
 - :mod:`~finkit.physics.transient.impedance`: the step response (thermal impedance) and the
   Foster and Cauer ladders fitted to it.
 

@@ -47,10 +47,11 @@ time of interest; a single fin node is poor when the Fourier number is below 1 (
 not yet conducted through in that time) and the Biot number above 0.1 (it has a gradient).
 These thresholds are common practice, no source.
 
-Everything here is pure (SI floats and numpy arrays); the ODEs are solved with
-``scipy.integrate.solve_ivp`` (``BDF`` by default, stiff-capable, with the exact Jacobian), in
-pieces between the times where the condition or the power changes, so the solver never steps
-over a discontinuity. Several designs are solved together as one block-diagonal system.
+Everything here is pure (SI floats and numpy arrays); the ODEs are solved exactly through the
+network's modes (:mod:`~finkit.physics.transient.modal`), in pieces between the times where
+the condition or the power changes, several designs at once; ``scipy.integrate.solve_ivp``
+(``BDF``, stiff-capable, with the exact Jacobian) remains selectable and takes over where the
+modes are not real and decaying.
 """
 
 from __future__ import annotations

@@ -1,4 +1,9 @@
-"""Solving the lumped network in time (:func:`simulate_transient`) and at steady state."""
+"""Solving the lumped network in time (:func:`simulate_transient`) and at steady state.
+
+The history is exact by default (:mod:`finkit.physics.transient.modal`); the stiff ODE
+solvers of ``scipy.integrate`` remain selectable (``method=``) and take over where the exact
+solution is not possible. SciPy is imported only then.
+"""
 
 from __future__ import annotations
 
@@ -6,14 +11,21 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy import sparse
-from scipy.integrate import solve_ivp
 
 from finkit.errors import InputError, SolverError
+from finkit.physics.transient.modal import (
+    first_crossing,
+    interior_maxima,
+    modes,
+    piece,
+    reduce,
+    search_grid,
+)
 from finkit.physics.transient.network import ThermalNetwork
 from finkit.physics.transient.profiles import PowerProfile
 
 __all__ = [
+    "METHODS",
     "TransientSolution",
     "simulate_transient",
     "steady_temperatures",
@@ -22,66 +34,6 @@ __all__ = [
 # --------------------------------------------------------------------------------------
 # Solving
 # --------------------------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class _Reduced:
-    """A network reduced to its nodes with capacity (the others follow algebraically)."""
-
-    dynamic: np.ndarray  # indices of nodes with capacity
-    a: np.ndarray  # (B, d, d): dθd/dt = a θd + b_p P   (θ = T - T_ref)
-    b_air: np.ndarray  # (B, d) times (T_in - T_ref)
-    b_p: np.ndarray  # (B, d)
-    m: np.ndarray  # (B, n, d): θ_all = m θd + m_air (T_in - T_ref) + m_p P
-    m_air: np.ndarray  # (B, n)
-    m_p: np.ndarray  # (B, n)
-
-
-def _reduce(network: ThermalNetwork) -> _Reduced:
-    cap = network.heat_capacity
-    has = cap > 0
-    if np.any(has != has[:1]):
-        raise InputError(
-            "heat capacities: a node has capacity in some designs and none in others; give all "
-            "designs the same nodes"
-        )
-    dyn = np.flatnonzero(has[0])
-    alg = np.flatnonzero(~has[0])
-    if dyn.size == 0:
-        raise InputError("heat capacities: no node has a heat capacity")
-    k = network.matrix()
-    air = network.air_conductance
-    n = k.shape[1]
-    e_p = np.zeros(n)
-    e_p[network.power_node] = 1.0
-    b = k.shape[0]
-    k_dd = k[:, dyn][:, :, dyn]
-    k_da = k[:, dyn][:, :, alg]
-    k_ad = k[:, alg][:, :, dyn]
-    k_aa = k[:, alg][:, :, alg]
-    # Algebraic nodes: K_ad θd + K_aa θa = air_a θ_in + e_a P
-    if alg.size:
-        inv = np.linalg.inv(k_aa)
-        alg_d = -inv @ k_ad  # (B, a, d)
-        alg_air = np.einsum("bij,bj->bi", inv, air[:, alg])
-        alg_p = np.einsum("bij,j->bi", inv, e_p[alg])
-    else:
-        alg_d = np.zeros((b, 0, dyn.size))
-        alg_air = np.zeros((b, 0))
-        alg_p = np.zeros((b, 0))
-    c = cap[:, dyn]
-    # C θd' = -K_dd θd - K_da θa + air_d θ_in + e_d P
-    a = (-k_dd - k_da @ alg_d) / c[:, :, None]
-    b_air = (air[:, dyn] - np.einsum("bij,bj->bi", k_da, alg_air)) / c
-    b_p = (e_p[dyn][None, :] - np.einsum("bij,bj->bi", k_da, alg_p)) / c
-    m = np.zeros((b, n, dyn.size))
-    m[:, dyn, np.arange(dyn.size)] = 1.0
-    m[:, alg, :] = alg_d
-    m_air = np.zeros((b, n))
-    m_air[:, alg] = alg_air
-    m_p = np.zeros((b, n))
-    m_p[:, alg] = alg_p
-    return _Reduced(dyn, a, b_air, b_p, m, m_air, m_p)
 
 
 def steady_temperatures(network: ThermalNetwork, power) -> np.ndarray:
@@ -122,18 +74,23 @@ class TransientSolution:
     power : ndarray, shape (m,)
         Power at each output time [W].
     peak_temperature : ndarray, shape (designs, n)
-        Highest temperature of each node [K].
+        Highest temperature of each node, interior maxima included (``"exact"``; the ODE
+        methods take it at their steps) [K].
     time_to_limit : ndarray, shape (designs,)
         First time the limit node reaches the limit temperature; NaN if it never does (or no
         limit was given) [s].
     supplied_energy : ndarray, shape (designs,)
         Energy put in by the power [J].
     convected_energy : ndarray, shape (designs,)
-        Energy carried to the air (integrated alongside the temperatures) [J].
+        Energy carried to the air (integrated exactly, or by the ODE solver alongside the
+        temperatures) [J].
     stored_energy : ndarray, shape (designs,)
         Change of the energy held by the node capacities [J].
     switch_times : tuple of float
         Times the condition changed [s].
+    method : str
+        How the history was obtained: ``"exact"`` (eigen-decomposition of each piece) or the
+        ``solve_ivp`` method, with the reason where the exact solution was not possible. [-]
     """
 
     node_names: tuple[str, ...]
@@ -146,6 +103,7 @@ class TransientSolution:
     convected_energy: np.ndarray
     stored_energy: np.ndarray
     switch_times: tuple[float, ...] = field(default=())
+    method: str = "exact"
 
     def node(self, name: str) -> np.ndarray:
         """Temperature history of one node, shape (designs, m) [K].
@@ -166,6 +124,10 @@ class TransientSolution:
         return self.temperature[:, :, -1]
 
 
+#: Methods of :func:`simulate_transient`: the exact solution, or a stiff ``solve_ivp`` method.
+METHODS = ("exact", "BDF", "LSODA", "Radau")
+
+
 def simulate_transient(
     networks: Sequence[ThermalNetwork] | ThermalNetwork,
     power: PowerProfile | float,
@@ -176,11 +138,11 @@ def simulate_transient(
     limit_node: str | None = None,
     limit_temperature=None,
     sample_times=None,
-    method: str = "BDF",
+    method: str = "exact",
     rtol: float = 1e-8,
     atol: float = 1e-8,
 ) -> TransientSolution:
-    """Integrate the lumped network through condition changes and a power history.
+    """The history of the lumped network through condition changes and a power history.
 
     Parameters
     ----------
@@ -203,13 +165,20 @@ def simulate_transient(
     sample_times : array or None
         Report the history at these times only (sorted, within [0, duration]; a time where
         the power or condition changes is reported twice, before and after) [s]; None = the
-        solver's own steps plus 9 points per piece. Peaks use the solver's steps either way.
+        search grid of each piece (``"exact"``: 33 even points plus 12 per decade from a
+        tenth of the fastest time constant) or the solver's own steps plus 9 points per
+        piece. Peaks and the time to the limit never depend on the samples.
     method : str
-        ``solve_ivp`` method, a stiff one: ``"BDF"`` (default), ``"LSODA"`` or ``"Radau"``. [-]
+        ``"exact"`` (default): each piece solved exactly through the eigen-decomposition of
+        the network (:mod:`finkit.physics.transient.modal`); where the network's modes are
+        not real and decaying (a non-symmetric network), ``"BDF"`` is used instead and
+        ``TransientSolution.method`` says why. Or a stiff ``scipy.integrate.solve_ivp``
+        method: ``"BDF"``, ``"LSODA"`` or ``"Radau"``. [-]
     rtol : float
-        Relative tolerance of the solver [-].
+        Relative tolerance of the ODE solver (not used by ``"exact"``) [-].
     atol : float
-        Absolute tolerance on temperatures above the first inlet air [K].
+        Absolute tolerance of the ODE solver on temperatures above the first inlet air (not
+        used by ``"exact"``) [K].
 
     Returns
     -------
@@ -221,7 +190,19 @@ def simulate_transient(
     InputError
         On inconsistent networks or times.
     SolverError
-        If the integrator fails.
+        If the ODE solver fails.
+
+    Notes
+    -----
+    The history is solved in pieces between every change of condition or power, within which
+    the network is linear with constant coefficients and the power linear in time.
+    ``"exact"``: each piece is a sum of decaying exponentials plus an affine part (module
+    notes of :mod:`~finkit.physics.transient.modal`); the peaks are the largest of its values
+    on a search grid and of its interior maxima (where its derivative, searched for sign
+    changes on the grid, is zero); the time to the limit is the first upward crossing, found
+    by a bracketed root search on the exact solution; the convected energy is its exact
+    integral. The ODE methods integrate the convected heat alongside the temperatures, take
+    peaks at the solver's steps and the time to the limit from its event location.
     """
     nets = [networks] if isinstance(networks, ThermalNetwork) else list(networks)
     switches = [float(s) for s in switch_times]
@@ -229,19 +210,18 @@ def simulate_transient(
         raise InputError("switch_times: give one time per network after the first")
     if any(not 0 < s < duration for s in switches) or switches != sorted(switches):
         raise InputError("switch_times: must increase and lie inside (0, duration)")
-    if method not in ("BDF", "LSODA", "Radau"):
-        raise InputError(f"method: got {method!r}; allowed: BDF, LSODA, Radau")
+    if method not in METHODS:
+        raise InputError(f"method: got {method!r}; allowed: {', '.join(METHODS)}")
     profile = power if isinstance(power, PowerProfile) else PowerProfile.constant(power)
     first = nets[0]
     names = first.node_names
     for net in nets[1:]:
         if net.node_names != names or not np.array_equal(net.heat_capacity, first.heat_capacity):
             raise InputError("networks: every condition must have the same nodes and capacities")
-    reduced = [_reduce(net) for net in nets]
-    dyn = reduced[0].dynamic
-    designs, n, d = first.design_count, len(names), dyn.size
+    reduced = [reduce(net) for net in nets]
+    designs, n = first.design_count, len(names)
     t_ref = first.inlet_temperature
-    limit_index = None
+    limit_index, limit = None, None
     if limit_node is not None and limit_temperature is not None:
         limit_index = names.index(limit_node)
         limit = np.broadcast_to(np.asarray(limit_temperature, float), (designs,)) - t_ref
@@ -255,18 +235,116 @@ def simulate_transient(
     knots = {0.0, float(duration), *switches}
     knots |= {float(t) for t in profile.time if 0.0 < t < duration}
     knots = sorted(knots)
-    y = np.concatenate([theta0[:, dyn].ravel(), np.zeros(designs)])
+    pieces = _Pieces(nets, reduced, profile, knots, switches, t_ref, limit_index, limit)
+    used = method
+    if method == "exact":
+        found = [modes(red) for red in reduced]
+        reasons = [why for mode, why in found if mode is None]
+        if reasons:
+            used = f"BDF ({reasons[0]}: no exact solution)"
+            out = _integrate_ivp(pieces, theta0, sample_times, "BDF", rtol, atol)
+        else:
+            out = _integrate_exact(pieces, [mode for mode, _ in found], theta0, sample_times)
+    else:
+        out = _integrate_ivp(pieces, theta0, sample_times, method, rtol, atol)
+    times, temps, powers, peak, time_to_limit, convected, theta_end = out
+    time = np.concatenate(times) if times else np.zeros(0)
+    theta = np.concatenate(temps, axis=2) if temps else np.zeros((designs, n, 0))
+    stored = np.sum(first.heat_capacity * (theta_end - theta0), axis=1)
+    supplied = np.full(designs, profile.energy(0.0, float(duration)))
+    return TransientSolution(
+        node_names=names,
+        time=time,
+        temperature=theta + t_ref[:, None, None],
+        power=np.concatenate(powers) if powers else np.zeros(0),
+        peak_temperature=peak + t_ref[:, None],
+        time_to_limit=time_to_limit,
+        supplied_energy=supplied,
+        convected_energy=np.array(convected, float),
+        stored_energy=stored,
+        switch_times=tuple(switches),
+        method=used,
+    )
+
+
+@dataclass(frozen=True)
+class _Pieces:
+    """What both integrators need: the conditions, the power and the pieces between knots."""
+
+    nets: list
+    reduced: list
+    profile: PowerProfile
+    knots: list
+    switches: list
+    t_ref: np.ndarray
+    limit_index: int | None
+    limit: np.ndarray | None
+
+    def __iter__(self):
+        """``(t0, t1, condition index, p0, slope)`` of each piece in turn."""
+        for t0, t1 in zip(self.knots[:-1], self.knots[1:], strict=True):
+            k = int(np.searchsorted(self.switches, t0, side="right"))
+            p0 = float(self.profile.at(t0))
+            p1 = float(self.profile.at(t1)) if self.profile.interpolation == "linear" else p0
+            yield t0, t1, k, p0, (p1 - p0) / (t1 - t0)
+
+
+def _integrate_exact(pieces: _Pieces, found, theta0, sample_times):
+    """The history piece by piece from the exact solution of each (module ``modal``)."""
+    designs, n = theta0.shape
+    state = theta0[:, pieces.reduced[0].dynamic]
     times, temps, powers = [], [], []
     peak = np.full((designs, n), -np.inf)
     time_to_limit = np.full(designs, np.nan)
     convected = np.zeros(designs)
-    for t0, t1 in zip(knots[:-1], knots[1:], strict=True):
-        k = int(np.searchsorted(switches, t0, side="right"))
-        red, net = reduced[k], nets[k]
-        d_air = net.inlet_temperature - t_ref
-        p0 = float(profile.at(t0))
-        p1 = float(profile.at(t1)) if profile.interpolation == "linear" else p0
-        slope = (p1 - p0) / (t1 - t0)
+    st = None if sample_times is None else np.asarray(sample_times, float)
+    for t0, t1, k, p0, slope in pieces:
+        net, mode, length = pieces.nets[k], found[k], t1 - t0
+        d_air = net.inlet_temperature - pieces.t_ref
+        part = piece(pieces.reduced[k], mode, state, d_air, p0, slope, length, net.air_conductance)
+        grid = search_grid(mode.rate, length)
+        values = part.value(grid)
+        maxima = interior_maxima(part, grid, part.slope(grid))
+        peak = np.maximum(peak, values.max(axis=2))
+        np.maximum.at(peak, (maxima[0], maxima[1]), maxima[4])
+        pending = np.isnan(time_to_limit)
+        if pieces.limit_index is not None and np.any(pending):
+            cross = first_crossing(part, grid, values, maxima, pieces.limit_index,
+                                   pieces.limit, pending)  # fmt: skip
+            time_to_limit = np.where(pending & np.isfinite(cross), t0 + cross, time_to_limit)
+        if st is None:
+            ts, tv = t0 + grid, values
+            ts[-1] = t1
+        else:
+            ts = st[(st >= t0) & (st <= t1)]
+            tv = part.value(ts - t0)
+        if ts.size:
+            times.append(ts)
+            temps.append(tv)
+            powers.append(p0 + slope * (ts - t0))
+        convected = convected + part.convected
+        state = part.dynamic_end
+    theta_end = part.value(np.array([length]))[:, :, 0]
+    return times, temps, powers, peak, time_to_limit, convected, theta_end
+
+
+def _integrate_ivp(pieces: _Pieces, theta0, sample_times, method, rtol, atol):
+    """The history by ``scipy.integrate.solve_ivp`` (a stiff method, the exact Jacobian)."""
+    # imported here: the exact solution needs neither (0.1 s of imports in a check)
+    from scipy import sparse
+    from scipy.integrate import solve_ivp
+
+    designs, n = theta0.shape
+    dyn = pieces.reduced[0].dynamic
+    d = dyn.size
+    limit_index, limit = pieces.limit_index, pieces.limit
+    y = np.concatenate([theta0[:, dyn].ravel(), np.zeros(designs)])
+    times, temps, powers = [], [], []
+    peak = np.full((designs, n), -np.inf)
+    time_to_limit = np.full(designs, np.nan)
+    for t0, t1, k, p0, slope in pieces:
+        red, net = pieces.reduced[k], pieces.nets[k]
+        d_air = net.inlet_temperature - pieces.t_ref
         g_air = net.air_conductance  # (B, n)
         # Convected heat = Σ g_air (θ_all - θ_in) = w θd + w_air d_air + w_p P
         w = np.einsum("bn,bnd->bd", g_air, red.m)
@@ -280,6 +358,11 @@ def simulate_transient(
             ],
             format="csc",
         )
+        if method == "LSODA":  # LSODA takes the Jacobian as a function, dense
+            dense = jac.toarray()
+
+            def jac(t, state, dense=dense):
+                return dense
 
         def rhs(t, state, red=red, w=w, w_air=w_air, w_p=w_p, forcing_air=forcing_air,
                 d_air=d_air, t0=t0, p0=p0, slope=slope):  # fmt: skip
@@ -332,24 +415,5 @@ def simulate_transient(
             times.append(ts)
             powers.append(p0 + slope * (ts - t0))
         y = sol.y[:, -1]
-        convected = y[designs * d :]
-    time = np.concatenate(times) if times else np.zeros(0)
-    theta = np.concatenate(temps, axis=2) if temps else np.zeros((designs, n, 0))
-    temperature = theta + t_ref[:, None, None]
-    theta_end = all_nodes(y[:, None], knots[-1])[:, :, 0]
-    cap = first.heat_capacity
-    stored = np.sum(cap * (theta_end - theta0), axis=1)
-    supplied = np.full(designs, profile.energy(0.0, float(duration)))
-    peak = peak + t_ref[:, None]
-    return TransientSolution(
-        node_names=names,
-        time=time,
-        temperature=temperature,
-        power=np.concatenate(powers) if powers else np.zeros(0),
-        peak_temperature=peak,
-        time_to_limit=time_to_limit,
-        supplied_energy=supplied,
-        convected_energy=convected.copy(),
-        stored_energy=stored,
-        switch_times=tuple(switches),
-    )
+    theta_end = all_nodes(y[:, None], pieces.knots[-1])[:, :, 0]
+    return times, temps, powers, peak, time_to_limit, y[designs * d :].copy(), theta_end
