@@ -51,6 +51,11 @@ def _failing_test_section(result):
 _SECTIONS = ["_first_test_section", "_second_test_section"]
 
 
+@ahead.group(lambda result: _SECTIONS)
+def _test_group(result):
+    return [_first_test_section(result), _second_test_section(result)]
+
+
 def _said(fragment) -> str:
     """The text of a fragment without its tags."""
     return re.sub(r"<[^>]+>", "", str(fragment))
@@ -75,7 +80,7 @@ def test_sections_to_share_are_the_templates_section_calls_in_cell_order():
     names = ahead.sections_to_share(cells)
     assert names[-3:] == ["model_form_section", "plot_figures", "method_section"]
     assert names.index("figure_calibration") < names.index("transient_section")
-    assert all(name in ahead.SHAREABLE for name in names)
+    assert all(name in ahead.SHAREABLE or name in ahead.GROUPS for name in names)
     # only a last-line call report.NAME(result) of a shareable section counts
     assert (
         ahead.sections_to_share(
@@ -101,6 +106,17 @@ def test_the_kernel_takes_what_the_helper_drew_and_draws_the_rest(tmp_path):
     os.waitpid(helper, 0)
     assert _said(_first_test_section(result)) == f"first shared by {os.getpid()}"
     assert _said(_second_test_section(result)) == f"second shared by {helper}"
+
+
+def test_a_group_is_shared_part_by_part(tmp_path):
+    result = _Result("grouped")
+    ahead.remember_folder(result, tmp_path)
+    (tmp_path / "_first_test_section.passed").touch()  # the kernel is at the first part
+    helper = _fork(lambda: ahead.draw_ahead(result, tmp_path, ["_test_group"]))
+    os.waitpid(helper, 0)
+    first, second = _test_group(result)
+    assert _said(first) == f"first grouped by {os.getpid()}"
+    assert _said(second) == f"second grouped by {helper}"
 
 
 def test_the_helper_stops_at_a_section_the_kernel_has_passed(tmp_path):

@@ -32,10 +32,14 @@ from typing import Any
 
 from finkit.report import present
 
-__all__ = ["SHAREABLE", "draw_ahead", "sections_to_share", "shareable"]
+__all__ = ["GROUPS", "SHAREABLE", "draw_ahead", "group", "sections_to_share", "shareable"]
 
 #: The section functions that may be drawn by the helper: name -> function (``f(result)``).
 SHAREABLE: dict[str, Callable[[Any], Any]] = {}
+
+#: Sections made of shareable parts: name -> ``parts(result)``, the names of the shareable
+#: functions the section calls, in order (so that a long section is shared part by part).
+GROUPS: dict[str, Callable[[Any], list[str]]] = {}
 
 # result id -> (result, scratch folder): what :func:`finkit.report.run` was handed.
 _FOLDERS: dict[int, tuple[Any, Path]] = {}
@@ -64,6 +68,27 @@ def shareable(function: Callable[[Any], Any]) -> Callable[[Any], Any]:
 
     SHAREABLE[name] = function
     return section
+
+
+def group(parts: Callable[[Any], list[str]]) -> Callable[[Callable], Callable]:
+    """Mark a section ``f(result)`` as made of shareable parts, listed by ``parts(result)``.
+
+    The helper draws the parts (from the last back); the section itself runs where it is
+    called and takes each part from the helper or draws it. A part listed but not called is
+    drawn for nothing; a part called but not listed is drawn by the kernel: the note is the same
+    either way.
+
+    Parameters
+    ----------
+    parts : callable
+        ``parts(result) -> list of str``, names of :func:`shareable` functions. [-]
+    """
+
+    def mark(function: Callable) -> Callable:
+        GROUPS[function.__name__] = parts
+        return function
+
+    return mark
 
 
 def remember_folder(result: Any, folder: str | os.PathLike | None) -> None:
@@ -176,7 +201,7 @@ def sections_to_share(cells: Sequence[str]) -> list[str]:
             isinstance(func, ast.Attribute)
             and isinstance(func.value, ast.Name)
             and func.value.id == "report"
-            and func.attr in SHAREABLE
+            and (func.attr in SHAREABLE or func.attr in GROUPS)
             and [getattr(a, "id", None) for a in call.args] == ["result"]
             and not call.keywords
             and func.attr not in names
@@ -201,7 +226,10 @@ def draw_ahead(result: Any, folder: str | os.PathLike, sections: Sequence[str]) 
         The shareable sections in the order the note's cells draw them. [-]
     """
     folder = Path(folder)
-    for name in reversed(list(sections)):
+    names: list[str] = []
+    for section in sections:
+        names += list(GROUPS[section](result)) if section in GROUPS else [section]
+    for name in reversed(names):
         try:
             if not _give(folder, name, result):
                 return

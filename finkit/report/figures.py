@@ -13,7 +13,7 @@ import numpy as np
 
 from finkit.case.units import from_si
 from finkit.report import present
-from finkit.report.ahead import shareable
+from finkit.report.ahead import group, shareable
 from finkit.report.formatting import (
     _FIGSIZE,
     _FIGSIZE_TALL,
@@ -143,6 +143,7 @@ def plot_fin_profile(result):
     return fig
 
 
+@shareable
 def figure_fin_profile(result) -> present.Fragment:
     """:func:`plot_fin_profile` embedded with its caption.
 
@@ -254,6 +255,7 @@ def plot_allowable_vs_inlet(result):
     return fig
 
 
+@shareable
 def figure_allowable_vs_inlet(result) -> present.Fragment:
     """:func:`plot_allowable_vs_inlet` embedded with its caption.
 
@@ -359,6 +361,7 @@ def plot_vs_airflow(result):
     return fig
 
 
+@shareable
 def figure_vs_airflow(result) -> present.Fragment:
     """:func:`plot_vs_airflow` embedded with its caption.
 
@@ -481,6 +484,7 @@ def plot_fan_system(result):
     return fig
 
 
+@shareable
 def figure_fan_system(result) -> present.Fragment:
     """:func:`plot_fan_system` embedded with its caption (a remark for natural convection).
 
@@ -578,6 +582,7 @@ def plot_resistance_breakdown(result):
     return fig
 
 
+@shareable
 def figure_resistance_breakdown(result) -> present.Fragment:
     """:func:`plot_resistance_breakdown` embedded with its caption.
 
@@ -732,7 +737,20 @@ def figure_sweep(result, name: str) -> present.Fragment:
     )
 
 
-@shareable
+def _figure_parts(result) -> list[str]:
+    """The shareable figures :func:`plot_figures` draws, in order."""
+    parts = ["figure_fin_profile", "figure_allowable_vs_inlet", "figure_vs_airflow"]
+    if not _is_natural(result):
+        parts.append("figure_fan_system")
+    parts.append(
+        "figure_base_map" if getattr(result, "sources", ()) else "figure_resistance_breakdown"
+    )
+    if sweep_names(result):
+        parts.append("sweep_figures")
+    return parts
+
+
+@group(_figure_parts)
 def plot_figures(result) -> present.Fragment:
     """Every standard figure of a heat-sink note, with headings, at the governing condition.
 
@@ -776,6 +794,7 @@ def plot_figures(result) -> present.Fragment:
     return _join(*parts)
 
 
+@shareable
 def sweep_figures(result) -> present.Fragment:
     """Every sweep the case lists that the fixed figures do not already show.
 

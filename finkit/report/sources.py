@@ -229,6 +229,7 @@ def plot_base_map(result):
     return fig
 
 
+@shareable
 def figure_base_map(result) -> present.Fragment:
     """:func:`plot_base_map` embedded with its caption.
 
