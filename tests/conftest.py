@@ -13,10 +13,16 @@ nb200-plate-fan and nb300-pin-ducted, validated and solved once per session).
 from __future__ import annotations
 
 import inspect
+import os
 import re
+import tempfile
 from pathlib import Path
 
 import pytest
+
+# Rendered equations are kept between runs in the user's cache folder; the tests (and the notes
+# they render in subprocesses) use a fresh folder of their own, so each run renders them anew.
+os.environ["FINKIT_CACHE_DIR"] = tempfile.mkdtemp(prefix="finkit-test-cache-")
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO_CASES = ROOT / "demo_cases"

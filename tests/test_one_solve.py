@@ -81,6 +81,24 @@ def test_governing_results_are_run_case_results(name):
     assert governing_results(case) == run_case(case).results
 
 
+@pytest.mark.parametrize(
+    "name",
+    sorted(
+        p.stem for p in DEMO.glob("*.yaml") if "kind: heat-sink" in p.read_text(encoding="utf-8")
+    ),
+)
+def test_a_full_solution_gives_the_attributions_governing_margin(name):
+    """The attribution takes a case's margin from its full solution (compare.remember_margin)
+    instead of solving the case again without its Monte Carlo, tolerances and transient."""
+    case = load_case(DEMO / f"{name}.yaml")
+    compare._MARGINS.clear()
+    compare.remember_margin(case.entered, run_case(case).results)
+    kept = dict(compare._MARGINS)
+    compare._MARGINS.clear()
+    compare._governing_margin(case.entered)  # the long way
+    assert compare._MARGINS == kept and len(kept) == 1
+
+
 def test_previous_revision_is_solved_again_when_its_file_changes(tmp_path):
     source = tmp_path / "rev.yaml"
     shutil.copy(DEMO / "nb200-plate-fan-rev-a.yaml", source)
@@ -100,6 +118,36 @@ def test_equation_images_are_the_same_each_time():
     first = str(present.equation(r"\eta = \dfrac{\tanh(m L)}{m L}", label="(1)"))
     second = str(present.equation(r"\eta = \dfrac{\tanh(m L)}{m L}", label="(1)"))
     assert first == second and present._equation_uri.cache_info().hits == 1
+
+
+def test_an_equation_is_rendered_once_and_then_read_from_the_cache(tmp_path, monkeypatch):
+    import matplotlib.mathtext
+
+    monkeypatch.setenv("FINKIT_CACHE_DIR", str(tmp_path))
+    latex = r"q = h\,A\,(T_s - T_\infty)"
+    present._equation_uri.cache_clear()
+    fresh = str(present.equation(latex))
+    assert len(list((tmp_path / "equations").glob("*.txt"))) == 1
+
+    def no_rendering(*args, **kwargs):
+        raise AssertionError("rendered again")
+
+    monkeypatch.setattr(matplotlib.mathtext, "math_to_image", no_rendering)
+    present._equation_uri.cache_clear()
+    assert str(present.equation(latex)) == fresh  # the same image, from the file
+    # another renderer (this module changed, or another matplotlib) never reads that file
+    monkeypatch.setattr(present, "_renderer_digest", lambda: "another renderer")
+    present._equation_uri.cache_clear()
+    with pytest.raises(AssertionError, match="rendered again"):
+        present.equation(latex)
+
+
+def test_an_unwritable_equation_cache_only_costs_the_rendering(tmp_path, monkeypatch):
+    blocked = tmp_path / "a-file"
+    blocked.write_text("not a folder")
+    monkeypatch.setenv("FINKIT_CACHE_DIR", str(blocked))
+    present._equation_uri.cache_clear()
+    assert "data:image/svg+xml," in str(present.equation(r"x^2"))
 
 
 def test_note_sweep_splits_a_failing_range_in_halves(monkeypatch):

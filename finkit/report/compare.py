@@ -39,6 +39,7 @@ __all__ = [
     "load_revision",
     "path_text",
     "prefetch",
+    "remember_margin",
 ]
 
 #: Top-level keys whose changes are documentary, not inputs of the answer.
@@ -120,7 +121,9 @@ def _solved_case_file(path: Path) -> tuple[dict, dict]:
         case = load_case(path)
         if len(_CASE_FILES) >= _CACHE_SIZE:
             _CASE_FILES.clear()
-        _CASE_FILES[key] = (case.entered, run_case(case).to_json_dict())
+        solved = run_case(case)
+        _CASE_FILES[key] = (case.entered, solved.to_json_dict())
+        remember_margin(case.entered, solved.results)
     entered, payload = _CASE_FILES[key]
     return copy.deepcopy(entered), copy.deepcopy(payload)
 
@@ -129,7 +132,8 @@ def prefetch(previous_source: str | os.PathLike, entered: dict) -> None:
     """Solve, into the caches, what comparing a case with its previous revision will solve.
 
     That is the previous revision (a case file is solved) and the governing margin of every
-    case the attribution tries; none of it depends on the current case's own results, so
+    case the attribution tries but the current one (whose full solution gives it,
+    :func:`remember_margin`); none of it depends on the current case's own results, so
     ``finkit note`` runs it in a second process while it solves the case
     (:func:`cached_solutions`, :func:`add_cached_solutions`).
 
@@ -140,8 +144,15 @@ def prefetch(previous_source: str | os.PathLike, entered: dict) -> None:
     entered : dict
         The current case as entered (unit strings kept). [-]
     """
-    old = load_revision(previous_source)
-    compare(old, Revision("prefetch", "case", copy.deepcopy(entered), {}, True))
+    old = load_revision(previous_source)  # a case file is solved in full, its margin kept
+    if old.entered is None:
+        return
+    physical = _physical(_input_changes(old.entered, entered))
+    if physical and len(physical) <= MAX_ATTRIBUTED:
+        try:  # the current case's own margin is not solved here: its parent solves it in full
+            _attribute(old.entered, physical, None)
+        except FinkitError:
+            pass  # reported when the note compares the revisions
 
 
 def cached_solutions() -> tuple[dict, dict]:
@@ -566,16 +577,44 @@ def _value(block: Mapping | None, name: str) -> Any:
     return entry.get("value") if isinstance(entry, Mapping) else entry
 
 
+def _margin_key(entered: dict) -> tuple[str, dict]:
+    data = {k: v for k, v in copy.deepcopy(entered).items() if k not in _NOT_SOLVED}
+    return json.dumps(data, sort_keys=True, default=str), data
+
+
+def _keep_margin(key: str, margin: float) -> None:
+    if len(_MARGINS) >= _CACHE_SIZE:
+        _MARGINS.clear()
+    _MARGINS[key] = margin
+
+
+def remember_margin(entered: dict, results: Mapping) -> None:
+    """Keep the governing margin of a case already solved in full, for the attribution.
+
+    ``run_case(case).results`` are the results at the governing condition, the very numbers
+    :func:`finkit.model.governing_results` gives (tested on every demo case), and the blocks the
+    attribution leaves out (:data:`_NOT_SOLVED`) do not change them (tested too), so the case's
+    governing margin need not be solved again.
+
+    Parameters
+    ----------
+    entered : dict
+        The case as entered. [-]
+    results : mapping
+        Its ``run_case(case).results``. [-]
+    """
+    margin = results.get("temperature_margin")
+    if margin is not None:
+        _keep_margin(_margin_key(entered)[0], float(margin))
+
+
 def _governing_margin(entered: dict) -> float:
     from finkit.case.schema import load_case
     from finkit.model.run import governing_results
 
-    data = {k: v for k, v in copy.deepcopy(entered).items() if k not in _NOT_SOLVED}
-    key = json.dumps(data, sort_keys=True, default=str)
+    key, data = _margin_key(entered)
     if key not in _MARGINS:
-        if len(_MARGINS) >= _CACHE_SIZE:
-            _MARGINS.clear()
-        _MARGINS[key] = float(governing_results(load_case(data))["temperature_margin"])
+        _keep_margin(key, float(governing_results(load_case(data))["temperature_margin"]))
     return _MARGINS[key]
 
 
@@ -592,10 +631,24 @@ def _apply(data: dict, path: tuple, value: Any, is_removed: bool) -> None:
         node[path[-1]] = value
 
 
-def _attribute(old: dict, changes: list[InputChange], new_entered: dict):
-    """(terms, remainder): each change alone on the old case, and what is left of the total."""
+def _input_changes(old: dict, new: dict) -> list[InputChange]:
+    la, lb = _leaves(old), _leaves(new)
+    sa, sb = _si_leaves(old), _si_leaves(new)
+    return [
+        InputChange(path, la.get(path), lb.get(path), sa.get(path), sb.get(path))
+        for path in dict.fromkeys([*la, *lb])
+        if la.get(path) != lb.get(path) or (path in la) != (path in lb)
+    ]
+
+
+def _physical(inputs: list[InputChange]) -> list[InputChange]:
+    return [c for c in inputs if not c.is_documentary and c.path[:1] != ("transient",)]
+
+
+def _attribute(old: dict, changes: list[InputChange], new_entered: dict | None):
+    """(terms, remainder, total): each change alone on the old case, what is left of the total
+    and the total; only the terms when ``new_entered`` is None (a prefetch)."""
     base = _governing_margin(old)
-    total = _governing_margin(new_entered) - base
     terms = []
     for change in changes:
         trial = copy.deepcopy(old)
@@ -605,6 +658,9 @@ def _attribute(old: dict, changes: list[InputChange], new_entered: dict):
         except (FinkitError, KeyError, IndexError, TypeError):
             continue  # a change that makes no case on its own is left to the remainder
         terms.append((change.name, delta))
+    if new_entered is None:
+        return tuple(terms), None, None
+    total = _governing_margin(new_entered) - base
     return tuple(terms), total - sum(d for _, d in terms), total
 
 
@@ -638,13 +694,7 @@ def compare(
             notes.append(f"{side} revision {r.label}: carries no inputs; inputs not compared")
     inputs: list[InputChange] = []
     if a.entered is not None and b.entered is not None:
-        la, lb = _leaves(a.entered), _leaves(b.entered)
-        sa, sb = _si_leaves(a.entered), _si_leaves(b.entered)
-        for path in list(dict.fromkeys([*la, *lb])):
-            if la.get(path) != lb.get(path) or (path in la) != (path in lb):
-                inputs.append(
-                    InputChange(path, la.get(path), lb.get(path), sa.get(path), sb.get(path))
-                )
+        inputs = _input_changes(a.entered, b.entered)
     ra, rb = a.results, b.results
     results = []
     for name in dict.fromkeys([*(ra.get("results") or {}), *(rb.get("results") or {})]):
@@ -677,7 +727,7 @@ def compare(
         "old_template": a.template,
         "new_template": b.template,
     }
-    physical = [c for c in inputs if not c.is_documentary and c.path[:1] != ("transient",)]
+    physical = _physical(inputs)
     if not physical and results:
         notes.append(
             "results changed although no input did: "

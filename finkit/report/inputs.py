@@ -398,7 +398,7 @@ def changes_since(result):
     if cached is not None and cached[0] is result:
         return cached[1]
     from finkit.errors import FinkitError
-    from finkit.report.compare import Revision, compare, load_revision
+    from finkit.report.compare import Revision, compare, load_revision, remember_margin
 
     current = Revision(
         label=f"this note ({result.case.case_id})",
@@ -407,6 +407,7 @@ def changes_since(result):
         results=result.to_json_dict(),
         is_hash_ok=True,
     )
+    remember_margin(result.case.entered, result.results)  # solved in full: no second solve
     try:
         comparison: Any = compare(load_revision(previous.source), current)
     except FinkitError as exc:
