@@ -512,6 +512,37 @@ def test_the_executed_notebook_is_written_once_at_the_end_not_per_cell(tmp_path,
 
 
 @pytest.mark.slow
+def test_a_batch_note_writes_its_notebook_at_each_cell_start(tmp_path, monkeypatch):
+    """A batch child can be killed from outside; the notebook written at the start of the
+    running cell names it (see test_batch's timeout test). Not also at each cell's end."""
+    import nbformat
+    import papermill
+    import papermill.engines
+
+    from finkit.notes.engine import START_SAVE, register_engine
+
+    writes = []
+    real = papermill.engines.write_ipynb
+    monkeypatch.setattr(
+        papermill.engines, "write_ipynb", lambda nb, path: (writes.append(path), real(nb, path))
+    )
+    template = NOTEBOOKS / "simple.ipynb"
+    code_cells = sum(c.cell_type == "code" for c in nbformat.read(template, as_version=4).cells)
+    papermill.execute_notebook(
+        str(template),
+        str(tmp_path / "out.ipynb"),
+        parameters={"case": fixture_case(), "note_time": NOTE_TIME},
+        kernel_name=notes.ensure_kernel(),
+        progress_bar=False,
+        engine_name=register_engine(START_SAVE),
+        cwd=str(tmp_path),
+    )
+    # each cell's start (the template's and papermill's injected parameters cell), the start
+    # of the run and the final sync; papermill alone writes at each cell's end too
+    assert len(writes) <= code_cells + 3
+
+
+@pytest.mark.slow
 def test_dead_kernel_is_reported(tmp_path):
     with pytest.raises(
         notes.NoteExecutionError,

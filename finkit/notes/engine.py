@@ -1,4 +1,4 @@
-"""The papermill engine of a note: papermill's own, writing the notebook once, at the end.
+"""The papermill engines of a note: papermill's own, writing the notebook less often.
 
 Papermill's engine writes the whole executed notebook at the start and at the end of every cell,
 so that a long run can be watched. A note's notebook is a private file in its scratch folder
@@ -7,38 +7,59 @@ cells wrote it 70 times (about 0.3 s of the parent's time, while a note's kernel
 helper want both cores; issue 15). Papermill writes the notebook once more when the run ends,
 failed, timed out or complete ("a final sync", regardless of exceptions), so that write alone
 keeps everything a failed note reports (:func:`finkit.notes.render._execution_failure` reads
-the partial notebook). This engine makes only that one.
+the partial notebook): :data:`FINAL_SAVE` makes only that one. A batch child can be killed
+from outside (its variant's time limit), and then no final sync runs: the batch names the cell
+that was running from the notebook written at that cell's start
+(:func:`finkit.batch.runner._rescue_partial`), so :data:`START_SAVE` writes at each cell's start
+and at the end, not at each cell's end (half the writes).
 """
 
 from __future__ import annotations
 
 from functools import lru_cache
 
-__all__ = ["ENGINE_NAME", "register_engine"]
+__all__ = ["FINAL_SAVE", "START_SAVE", "register_engine"]
 
-#: The name the engine is registered under with papermill.
-ENGINE_NAME = "finkit-final-save"
+#: The engine that writes the notebook only at the end of the run (failed or not).
+FINAL_SAVE = "finkit-final-save"
+#: The engine that writes it at the start of every cell and at the end of the run.
+START_SAVE = "finkit-start-save"
 
 
-@lru_cache(maxsize=1)
-def register_engine() -> str:
-    """Register the engine with papermill (once); its name, for ``engine_name=``.
+@lru_cache(maxsize=2)
+def register_engine(name: str = FINAL_SAVE) -> str:
+    """Register an engine with papermill (once); its name, for ``engine_name=``.
+
+    Parameters
+    ----------
+    name : {FINAL_SAVE, START_SAVE}, optional
+        Which engine. [-]
 
     Returns
     -------
     str
-        :data:`ENGINE_NAME`. [-]
+        ``name``. [-]
     """
+    at_start = name == START_SAVE
     from papermill.engines import NBClientEngine, NotebookExecutionManager, papermill_engines
 
     class _FinalSaveManager(NotebookExecutionManager):
-        """Saves only from :meth:`notebook_complete`, which papermill always calls."""
+        """Saves from :meth:`notebook_complete`, which papermill always calls (and from
+        :meth:`cell_start` for :data:`START_SAVE`)."""
 
         _final = False
+        _starting = False
 
         def save(self, **kwargs):
-            if self._final:
+            if self._final or self._starting:
                 super().save(**kwargs)
+
+        def cell_start(self, cell, cell_index=None, **kwargs):
+            self._starting = at_start
+            try:
+                super().cell_start(cell, cell_index, **kwargs)
+            finally:
+                self._starting = False
 
         def notebook_complete(self, **kwargs):
             self._final = True
@@ -72,5 +93,5 @@ def register_engine() -> str:
                 nb_man.notebook_complete()
             return nb_man.nb
 
-    papermill_engines.register(ENGINE_NAME, _FinalSaveEngine)
-    return ENGINE_NAME
+    papermill_engines.register(name, _FinalSaveEngine)
+    return name

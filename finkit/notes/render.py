@@ -16,7 +16,7 @@ from pathlib import Path
 from typing import Any
 
 from finkit.errors import InputError
-from finkit.notes.engine import register_engine
+from finkit.notes.engine import FINAL_SAVE, START_SAVE, register_engine
 from finkit.notes.files import (
     _PACKAGE_DIR,
     _TEMPLATE_DIR,
@@ -450,7 +450,8 @@ def render_note(
                 log_output=False,
                 cwd=str(scratch),
                 km=kernel_manager,
-                engine_name=register_engine(),
+                # a note run for a batch can be killed from outside: written at each cell's start
+                engine_name=register_engine(FINAL_SAVE if own_kernel is not None else START_SAVE),
             )
         except Exception as exc:  # noqa: BLE001 - every failure is reported the same way
             message = _execution_failure(exc, executed_path, prepared, prov, folder, timeout)
