@@ -1,12 +1,14 @@
 """Work a note's parent process forks off while the kernel boots and runs the cells.
 
-``finkit note`` runs on two cores in parallel with its own kernel: a child forked before the
-kernel starts solves the comparison with the previous revision (:class:`ComparisonPrefetch`)
+``finkit note`` runs on two cores in parallel with its own kernel: a child forked once the
+case is checked solves the comparison with the previous revision (:class:`ComparisonPrefetch`)
 while the parent solves the case, and a child forked after the solve draws the note's sections
 from the end while the kernel draws them from the start (:class:`SectionHelper`,
 :mod:`finkit.report.ahead`). Each hands its work over through files in the note's private
 scratch folder; anything that goes wrong in a child leaves the work to the parent or the
-kernel, as without it (issue 15).
+kernel, as without it (issue 15). The parent forks only while it runs no other thread (the
+note's kernel client is started without its heartbeat thread for that), and a child leaves by
+``os._exit``, so nothing of the parent's (the kernel's sockets) is closed or flushed twice.
 """
 
 from __future__ import annotations
@@ -43,9 +45,8 @@ class ComparisonPrefetch:
 
     Comparing a case with its previous revision solves that revision and the cases its
     attribution tries (:func:`finkit.report.compare.prefetch`), none of which needs the current
-    case's
-    results; a child forked before the kernel starts solves them while the parent solves the
-    case, on the second core, and hands the solutions back through a file in the scratch
+    case's results; a child forked once the case is checked solves them while the parent solves
+    the case, on the second core, and hands the solutions back through a file in the scratch
     folder (issue 15). Nothing but the content-keyed solution caches comes back; anything that
     goes wrong leaves the parent to solve them itself, as before.
     """
