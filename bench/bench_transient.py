@@ -24,7 +24,6 @@ from bench_fins import best_time  # the bench folder is on the path of a script 
 
 ROOT = Path(__file__).resolve().parents[1]
 CASE = ROOT / "demo_cases" / "nb200-plate-fan.yaml"
-REPEAT = 5
 
 
 def fresh(code: str) -> float:
